@@ -1,0 +1,76 @@
+"""Medium families: how a kind of medium is built from parameters and expanded for surveys.
+
+A family is what the registry lists under a name (``eca``). It turns a flat
+parameter dict (from a config table or command-line options) into a
+:class:`~media.interface.Medium`, and it expands a survey's ``[medium]``
+table into the parameter dicts of every instance to probe. It may also
+attach published labels to an instance (``annotate``) and name the label
+the summary figure colours by (``class_column``).
+"""
+
+from __future__ import annotations
+
+import difflib
+from dataclasses import dataclass
+
+from media.errors import MediumInputError
+
+
+@dataclass(frozen=True)
+class Parameter:
+    """One parameter of a family: its default (``REQUIRED`` if none) and a help line."""
+
+    default: object
+    help: str
+
+
+REQUIRED = object()
+
+
+def unknown_key_message(where: str, key: str, allowed) -> str:
+    """One line naming an unknown key, the nearest allowed key and the full list."""
+    allowed = sorted(allowed)
+    close = difflib.get_close_matches(key, allowed, n=1, cutoff=0.5)
+    hint = f"; did you mean {close[0]!r}?" if close else ""
+    return f"{where}: unknown key {key!r}{hint} (allowed: {', '.join(allowed)})"
+
+
+class MediumFamily:
+    """Base class for families. Subclasses set ``name``, ``summary``, ``parameters``,
+    ``survey_parameters`` and implement ``build`` and ``expand``."""
+
+    name = "family"
+    summary = ""
+    parameters: dict = {}
+    survey_parameters: dict = {}
+    class_column = None
+
+    def check_keys(self, params: dict, where: str, allowed) -> None:
+        for key in params:
+            if key not in allowed:
+                raise MediumInputError(unknown_key_message(where, key, allowed))
+
+    def with_defaults(self, params: dict, where: str = "medium") -> dict:
+        """``params`` checked against ``parameters``, with defaults filled in."""
+        self.check_keys(params, where, self.parameters)
+        full = {}
+        for key, spec in self.parameters.items():
+            if key in params:
+                full[key] = params[key]
+            elif spec.default is REQUIRED:
+                raise MediumInputError(f"{where}: missing parameter {key!r} ({spec.help})")
+            else:
+                full[key] = spec.default
+        return full
+
+    def build(self, **params):  # pragma: no cover - abstract
+        raise NotImplementedError
+
+    def expand(self, table: dict, seed: int) -> list:  # pragma: no cover - abstract
+        raise NotImplementedError
+
+    def annotate(self, params: dict) -> dict:
+        return {}
+
+    def instance_label(self, params: dict) -> str:
+        return ", ".join(f"{key}={value}" for key, value in params.items())

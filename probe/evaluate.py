@@ -1,0 +1,146 @@
+"""Evaluation: run every (sign, context) pair through a medium and read its meaning.
+
+The result is a :class:`MeaningTable`: ``meanings[c, s]`` is the meaning of
+sign ``s`` under the ``c``-th evaluated context, as a pattern number of the
+readout sites (base ``n_states``, first readout site least significant), or
+``UNDEFINED`` (-1) when the readout did not persist over the window, or, for
+one-hot meanings, when not exactly one readout site was on.
+
+Runs are built and evolved in chunks of contexts, so memory stays bounded
+whatever the number of contexts.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from probe.errors import EnumerationTooLarge
+from probe.layout import Layout, ResolvedLayout
+
+UNDEFINED = -1
+DEFAULT_MAX_RUNS = 2**26
+CHUNK_CELLS = 2**24  # initial-state bytes built at once
+
+
+@dataclass
+class MeaningTable:
+    """Meanings of every evaluated (context, sign) pair, with the layout that produced them."""
+
+    meanings: np.ndarray
+    resolved: ResolvedLayout
+
+    @property
+    def n_contexts(self) -> int:
+        return self.meanings.shape[0]
+
+    @property
+    def n_signs(self) -> int:
+        return self.meanings.shape[1]
+
+
+def check_size(resolved: ResolvedLayout, max_runs: int) -> None:
+    """Refuse an enumeration above ``max_runs`` runs, saying how large it is and what to do."""
+    if resolved.runs > max_runs:
+        layout = resolved.layout
+        raise EnumerationTooLarge(
+            f"layout {layout.name!r}: {resolved.n_signs} signs x {resolved.n_contexts} contexts = "
+            f"{resolved.runs} runs is over the limit of {max_runs}; set context_sample (e.g. "
+            f"context_sample = {max(2, max_runs // resolved.n_signs // 16)}) to evaluate a seeded sample, "
+            f"use fewer sign or context sites, or raise max_runs")
+
+
+def initial_states(resolved: ResolvedLayout, start: int, stop: int, n_sites: int) -> np.ndarray:
+    """Initial states for contexts ``start .. stop-1`` times every sign; run ``(c - start) * n_signs + s``."""
+    n_signs = resolved.n_signs
+    n_ctx = stop - start
+    states = np.empty((n_ctx * n_signs, n_sites), dtype=np.uint8)
+    states[:] = resolved.background
+    states[:, resolved.sign_sites] = np.tile(resolved.sign_patterns, (n_ctx, 1))
+    states[:, resolved.context_sites] = np.repeat(resolved.context_patterns(start, stop), n_signs, axis=0)
+    return states
+
+
+def read_meanings(window: np.ndarray, n_states: int, kind: str) -> np.ndarray:
+    """Meaning numbers from readout windows of shape ``(runs, times, readout_sites)``."""
+    first = window[:, 0, :].astype(np.int64)
+    persistent = (window == window[:, :1, :]).all(axis=(1, 2))
+    if kind == "one-hot":
+        on = first != 0
+        single = on.sum(axis=1) == 1
+        position = on.argmax(axis=1)
+        value = first[np.arange(first.shape[0]), position]
+        meanings = position * (n_states - 1) + value - 1
+        persistent &= single
+    else:
+        powers = n_states ** np.arange(first.shape[1], dtype=np.int64)
+        meanings = first @ powers
+    return np.where(persistent, meanings, UNDEFINED).astype(np.int64)
+
+
+def evaluate(medium, layout: Layout | ResolvedLayout, *, seed: int = 0, max_runs: int = DEFAULT_MAX_RUNS,
+             progress=None) -> MeaningTable:
+    """Run every sign under every context and read the meanings.
+
+    Parameters
+    ----------
+    medium
+        Anything that implements :mod:`media.interface`.
+    layout
+        A :class:`~probe.layout.Layout` (resolved here) or an already resolved one.
+    seed
+        The run seed (background and context sampling draw from it).
+    max_runs
+        Refuse enumerations larger than this many runs.
+    progress
+        Optional callable given the number of runs finished after each chunk.
+
+    Examples
+    --------
+    >>> from media.eca import ElementaryCA
+    >>> table = evaluate(ElementaryCA(rule=90, width=9), Layout(signs="4", contexts="3,5", readout="4", window="2:2"))
+    >>> table.meanings.shape
+    (4, 2)
+    """
+    resolved = layout if isinstance(layout, ResolvedLayout) else layout.resolve(medium, seed)
+    check_size(resolved, max_runs)
+    spec = resolved.layout
+    t0, t1 = spec.window
+    clamp = []
+    if spec.clamp_signs:
+        clamp.append(resolved.sign_sites)
+    if spec.clamp_contexts:
+        clamp.append(resolved.context_sites)
+    clamp_sites = np.concatenate(clamp) if clamp else np.zeros(0, dtype=np.int64)
+
+    n_contexts = resolved.n_contexts
+    per_chunk = max(1, CHUNK_CELLS // max(1, resolved.n_signs * medium.n_sites))
+    meanings = np.empty((n_contexts, resolved.n_signs), dtype=np.int64)
+    for start in range(0, n_contexts, per_chunk):
+        stop = min(n_contexts, start + per_chunk)
+        states = initial_states(resolved, start, stop, medium.n_sites)
+        window = medium.evolve(states, t1, watch=resolved.readout_sites, watch_from=t0,
+                               clamp_sites=clamp_sites, clamp_values=states[:, clamp_sites])
+        meanings[start:stop] = read_meanings(window, resolved.n_states, spec.meanings).reshape(stop - start, -1)
+        if progress is not None:
+            progress((stop - start) * resolved.n_signs)
+    return MeaningTable(meanings=meanings, resolved=resolved)
+
+
+def light_cone_report(medium, resolved: ResolvedLayout) -> list:
+    """Readout sites that neither the signs nor the contexts can reach by the window end.
+
+    The meaning cannot depend on such a site's input, so a layout that has
+    them wastes readout; the CLI and surveys print them as a warning.
+    """
+    t1 = resolved.layout.window[1]
+    reach_signs = np.asarray(medium.reach(resolved.sign_sites, t1), dtype=bool)
+    reach_contexts = np.asarray(medium.reach(resolved.context_sites, t1), dtype=bool)
+    messages = []
+    for site in resolved.readout_sites.tolist():
+        missing = [what for what, mask in (("signs", reach_signs), ("contexts", reach_contexts)) if not mask[site]]
+        if missing:
+            messages.append(f"layout {resolved.layout.name!r}: readout site {site} lies outside the light cone of "
+                            f"the {' and '.join(missing)} by t1 = {t1}; its meaning cannot depend on them")
+    return messages
