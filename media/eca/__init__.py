@@ -23,6 +23,10 @@ class ElementaryFamily(MediumFamily):
         "boundary": parameters["boundary"],
     }
     class_column = "wolfram_class"
+    marker_column = "li_packard_class"
+    axis_key = "rule"
+    class_source = ("colours: Wolfram classes as tabulated by Martinez 2013 (arXiv:1306.5577); "
+                    "markers: Li & Packard 1990, Complex Systems 4:281, Table 2")
 
     def build(self, **params):
         full = self.with_defaults(params)

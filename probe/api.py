@@ -1,0 +1,37 @@
+"""The public API: everything the CLI does, callable from a notebook.
+
+Examples
+--------
+Tally one rule under one layout:
+
+>>> from probe import api
+>>> medium = api.build_medium("eca", rule=110, width=21)
+>>> layout = api.Layout(signs="10,11", contexts="4-9,12-17", readout="10,11", window="4:8")
+>>> api.tally(medium, layout).contexts
+4096
+
+Run a survey from objects (or pass a TOML path to ``run_survey``):
+
+>>> import tempfile
+>>> config = api.SurveyConfig(name="notebook", medium_kind="eca", medium={"rules": "30,90", "width": 11},
+...                           layouts=[api.Layout(signs="5", contexts="3,4,6,7", readout="5", window="2:2")])
+>>> rows = api.run_survey(config, tempfile.mkdtemp(), progress=False, figure=False).rows
+>>> len(rows)
+2
+"""
+
+from media.family import REQUIRED
+from media.registry import available as available_media
+from media.registry import build as build_medium
+from probe.config import SurveyConfig, load_config, parse_config_text
+from probe.evaluate import DEFAULT_MAX_RUNS, MeaningTable, evaluate, light_cone_report
+from probe.layout import Layout
+from probe.survey import plan_survey, run_survey
+from probe.tally import Tallies, tally, tally_meanings
+from probe.witness import CodeWitness, draw_witness, find_witness
+
+__all__ = [
+    "CodeWitness", "DEFAULT_MAX_RUNS", "Layout", "MeaningTable", "REQUIRED", "SurveyConfig", "Tallies",
+    "available_media", "build_medium", "draw_witness", "evaluate", "find_witness", "light_cone_report",
+    "load_config", "parse_config_text", "plan_survey", "run_survey", "tally", "tally_meanings",
+]

@@ -1,0 +1,205 @@
+"""The ``cprobe`` command line. It only calls the public API in :mod:`probe.api`.
+
+Bad input prints one line, ``error: ...``, and exits with status 2.
+"""
+
+from __future__ import annotations
+
+import json
+import sys
+from pathlib import Path
+
+import click
+
+from probe import api
+from probe.errors import INPUT_ERRORS
+
+
+class ProbeGroup(click.Group):
+    """Turns the project's input errors into one line on stderr and exit status 2."""
+
+    def invoke(self, ctx):
+        try:
+            return super().invoke(ctx)
+        except INPUT_ERRORS as error:
+            click.echo(f"error: {error}", err=True)
+            ctx.exit(2)
+
+
+@click.group(cls=ProbeGroup, context_settings={"help_option_names": ["-h", "--help"], "max_content_width": 100})
+@click.version_option(package_name="cprobe")
+def cli():
+    """Count the context-dependent sign-to-meaning codes a medium carries (semantic capacity).
+
+    \b
+    Start with:
+      cprobe media                                   what can be probed
+      cprobe tally --rule 110 --signs 10,11 --contexts 4-9,12-17 --readout 10,11 --window 4:8
+      cprobe survey configs/eca-survey.toml          a whole rule space into a run folder
+    """
+
+
+def _value(text: str):
+    for convert in (int, float):
+        try:
+            return convert(text)
+        except ValueError:
+            pass
+    return text
+
+
+def medium_options(command):
+    options = [
+        click.option("--medium", "medium_kind", default="eca", show_default=True,
+                     help="Medium kind; `cprobe media` lists them."),
+        click.option("--rule", type=str, default=None, help="Rule number (eca: Wolfram 0-255)."),
+        click.option("--width", type=str, default=None, help="Number of sites of a lattice (eca default 21)."),
+        click.option("--boundary", type=str, default=None, help="periodic (default) or fixed (zeros beyond the ends)."),
+        click.option("--param", "extra_params", multiple=True, metavar="KEY=VALUE",
+                     help="Any other medium parameter; repeatable."),
+    ]
+    for option in reversed(options):
+        command = option(command)
+    return command
+
+
+def layout_options(command):
+    options = [
+        click.option("--signs", required=True, help="Sign sites, e.g. 10,11 or 3-5."),
+        click.option("--contexts", required=True, help="Context sites, e.g. 4-9,12-17."),
+        click.option("--readout", required=True, help="Readout (meaning) sites, e.g. 10,11."),
+        click.option("--window", default="1:1", show_default=True,
+                     help="Readout window t0:t1; the meaning must hold at every step in it."),
+        click.option("--background", default="zeros", show_default=True,
+                     help="zeros, random (seeded), or a pattern of digits over all sites."),
+        click.option("--density", "background_density", type=float, default=0.5, show_default=True,
+                     help="Share of ones in a random background."),
+        click.option("--clamp-signs", is_flag=True, help="Hold sign sites at their pattern at every step."),
+        click.option("--clamp-contexts", is_flag=True, help="Hold context sites at their pattern at every step."),
+        click.option("--meanings", type=click.Choice(["pattern", "one-hot"]), default="pattern", show_default=True,
+                     help="Every readout pattern is a meaning, or only patterns with one site on."),
+        click.option("--sample", "context_sample", type=int, default=None,
+                     help="Evaluate a seeded sample of this many contexts instead of all."),
+        click.option("--seed", type=int, default=0, show_default=True, help="Run seed (background, sampling)."),
+        click.option("--max-runs", type=int, default=api.DEFAULT_MAX_RUNS, show_default=True,
+                     help="Refuse enumerations over this many runs."),
+    ]
+    for option in reversed(options):
+        command = option(command)
+    return command
+
+
+def _build(medium_kind, rule, width, boundary, extra_params):
+    params = {key: value for key, value in (("rule", rule), ("width", width), ("boundary", boundary))
+              if value is not None}
+    for item in extra_params:
+        key, equals, value = item.partition("=")
+        if not equals or not key:
+            raise click.BadParameter(f"{item!r} is not KEY=VALUE", param_hint="--param")
+        params[key.strip()] = value.strip()
+    return api.build_medium(medium_kind, **{key: _value(value) for key, value in params.items()})
+
+
+def _layout(signs, contexts, readout, window, background, background_density, clamp_signs, clamp_contexts,
+            meanings, context_sample, name="cli"):
+    return api.Layout(signs=signs, contexts=contexts, readout=readout, window=window, background=background,
+                      background_density=background_density, clamp_signs=clamp_signs,
+                      clamp_contexts=clamp_contexts, meanings=meanings, context_sample=context_sample, name=name)
+
+
+@cli.command()
+@medium_options
+@layout_options
+@click.option("--json", "as_json", is_flag=True, help="Print one JSON object with the tally columns.")
+def tally(medium_kind, rule, width, boundary, extra_params, signs, contexts, readout, window, background,
+          background_density, clamp_signs, clamp_contexts, meanings, context_sample, seed, max_runs, as_json):
+    """Tally one medium under one layout and print the columns.
+
+    \b
+    Example:
+      cprobe tally --medium eca --rule 110 --width 21 --signs 10,11 \\
+          --contexts 4-9,12-17 --readout 10,11 --window 4:8 --json
+    """
+    medium = _build(medium_kind, rule, width, boundary, extra_params)
+    layout = _layout(signs, contexts, readout, window, background, background_density, clamp_signs,
+                     clamp_contexts, meanings, context_sample)
+    resolved = layout.resolve(medium, seed)
+    for warning in api.light_cone_report(medium, resolved):
+        click.echo(f"warning: {warning}", err=True)
+    result = api.tally(medium, resolved, seed=seed, max_runs=max_runs)
+    record = {"medium": medium_kind, **medium.describe(), "seed": seed, **result.as_dict()}
+    if as_json:
+        click.echo(json.dumps(record))
+        return
+    click.echo(f"{medium!r}  signs {signs}  contexts {contexts}  readout {readout}  window {window}  seed {seed}")
+    for key, value in result.as_dict().items():
+        shown = f"{value:.6g}" if isinstance(value, float) else f"{value:,}"
+        click.echo(f"  {key:<22} {shown}")
+
+
+@cli.command()
+@click.argument("config", type=click.Path(dir_okay=False, path_type=Path))
+@click.option("--out", type=click.Path(file_okay=False, path_type=Path), default=None,
+              help="Run folder (default outputs/<survey name>).")
+@click.option("--quiet", is_flag=True, help="No progress bar and no status lines.")
+def survey(config, out, quiet):
+    """Run a survey config into a run folder: results.csv, manifest.json, config.toml, capacity.png.
+
+    \b
+    Example:
+      cprobe survey configs/eca-survey.toml --out outputs/my-eca-run
+    """
+    echo = (lambda line: None) if quiet else (lambda line: click.echo(line, err=True))
+    result = api.run_survey(config, out, progress=not quiet, echo=echo)
+    if not quiet:
+        click.echo(f"results: {result.folder / 'results.csv'}")
+        if result.figure:
+            click.echo(f"figure:  {result.figure}")
+
+
+@cli.command()
+@medium_options
+@layout_options
+@click.option("--out", type=click.Path(dir_okay=False, path_type=Path), default=Path("witness.png"),
+              show_default=True, help="PNG file to write.")
+def witness(medium_kind, rule, width, boundary, extra_params, signs, contexts, readout, window, background,
+            background_density, clamp_signs, clamp_contexts, meanings, context_sample, seed, max_runs, out):
+    """Find one code instance and draw its four runs (two signs x two contexts) as a PNG.
+
+    \b
+    Example:
+      cprobe witness --rule 110 --signs 10,11 --contexts 4-9,12-17 \\
+          --readout 10,11 --window 4:8 --out witness-110.png
+    """
+    medium = _build(medium_kind, rule, width, boundary, extra_params)
+    layout = _layout(signs, contexts, readout, window, background, background_density, clamp_signs,
+                     clamp_contexts, meanings, context_sample)
+    found, path = api.draw_witness(medium, layout, out, seed=seed, max_runs=max_runs)
+    if found is None:
+        click.echo("no code instance under this layout, so nothing was drawn; try another window, "
+                   "more context sites, or `cprobe tally` to see the counts", err=True)
+        sys.exit(1)
+    click.echo(f"signs {found.sign_pair}, contexts {found.context_pair}, meanings {found.meaning_pair} -> {path}")
+
+
+@cli.command()
+def media():
+    """List the media that can be probed, with their parameters.
+
+    \b
+    Example:
+      cprobe media
+    """
+    for name, family in api.available_media().items():
+        click.echo(f"{name}: {family.summary}")
+        for key, spec in family.parameters.items():
+            default = "required" if spec.default is api.REQUIRED else f"default {spec.default!r}"
+            click.echo(f"    {key:<10} {spec.help} ({default})")
+
+
+def main():
+    cli(prog_name="cprobe")
+
+
+if __name__ == "__main__":
+    main()

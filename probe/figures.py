@@ -1,0 +1,130 @@
+"""Figures: the survey summary and the code witness.
+
+Both are drawn with matplotlib's Agg backend into PNG files and know nothing
+of any particular medium: a family tells which result columns hold class
+labels (``class_column`` colours, ``marker_column`` marker shapes) and which
+parameter is the x axis (``axis_key``); a medium may name its sites.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import matplotlib
+
+matplotlib.use("Agg")
+import matplotlib.pyplot as plt  # noqa: E402
+import numpy as np  # noqa: E402
+from matplotlib.patches import Rectangle  # noqa: E402
+
+PALETTE = ("#4c72b0", "#55a868", "#c44e52", "#8172b2", "#ccb974", "#64b5cd", "#8c8c8c", "#dd8452")
+MARKERS = ("o", "s", "^", "D", "v", "P", "X", "*")
+SITE_COLOURS = {"signs": "#c44e52", "contexts": "#4c72b0", "readout": "#55a868"}
+
+
+def _category_styles(values, styles):
+    ordered = sorted({v for v in values if v is not None}, key=lambda v: (str(type(v)), v))
+    return {value: styles[i % len(styles)] for i, value in enumerate(ordered)}
+
+
+def plot_capacity(rows: list, path, *, family=None, layouts=None, title: str = "survey") -> Path:
+    """Semantic capacity per medium instance on a log scale, one panel per layout.
+
+    Zero capacity sits on the linear stretch at the bottom of a symmetric-log
+    axis, so instances without codes stay visible. Points are coloured by the
+    family's ``class_column`` and shaped by its ``marker_column`` when present.
+    """
+    path = Path(path)
+    layouts = layouts or sorted({row["layout"] for row in rows})
+    axis_key = getattr(family, "axis_key", None)
+    class_column = getattr(family, "class_column", None)
+    marker_column = getattr(family, "marker_column", None)
+    colours = _category_styles([row.get(class_column) for row in rows], PALETTE) if class_column else {}
+    markers = _category_styles([row.get(marker_column) for row in rows], MARKERS) if marker_column else {}
+
+    fig, axes = plt.subplots(len(layouts), 1, figsize=(12, 2.9 * len(layouts) + 0.8), squeeze=False, sharex=True)
+    for ax, layout in zip(axes[:, 0], layouts):
+        subset = [row for row in rows if row["layout"] == layout]
+        x = np.array([row[axis_key] if axis_key else i for i, row in enumerate(subset)], dtype=float)
+        y = np.array([row["code_instances"] for row in subset], dtype=float)
+        groups = {}
+        for i, row in enumerate(subset):
+            key = (row.get(class_column) if class_column else None, row.get(marker_column) if marker_column else None)
+            groups.setdefault(key, []).append(i)
+        for (colour_key, marker_key), members in sorted(groups.items(), key=lambda item: str(item[0])):
+            ax.scatter(x[members], y[members], s=22, color=colours.get(colour_key, PALETTE[0]),
+                       marker=markers.get(marker_key, "o"), edgecolor="black", linewidth=0.3, zorder=3)
+        ax.vlines(x, 0, y, color="#bbbbbb", linewidth=0.6, zorder=1)
+        ax.set_yscale("symlog", linthresh=1.0)
+        ax.set_ylim(bottom=-0.3)
+        ax.set_ylabel("code instances")
+        with_codes = int(np.count_nonzero(y))
+        ax.set_title(f"layout {layout!r}: {with_codes} of {len(subset)} instances carry codes; "
+                     f"max {int(y.max()) if y.size else 0:,}", fontsize=10, loc="left")
+        ax.grid(axis="y", alpha=0.3)
+    axes[-1, 0].set_xlabel(axis_key or "instance")
+
+    handles = []
+    for value, colour in colours.items():
+        handles.append(plt.Line2D([], [], linestyle="", marker="o", color=colour, markeredgecolor="black",
+                                  label=f"{class_column.replace('_', ' ')} {value}"))
+    for value, marker in markers.items():
+        handles.append(plt.Line2D([], [], linestyle="", marker=marker, color="#999999", markeredgecolor="black",
+                                  label=f"{value}"))
+    if handles:
+        fig.legend(handles=handles, loc="upper right", ncol=min(len(handles), 5), fontsize=8, frameon=False)
+    source = getattr(family, "class_source", "")
+    fig.suptitle(f"{title}: semantic capacity (order-2 code instances)", x=0.01, ha="left", fontsize=12)
+    if source:
+        fig.text(0.01, 0.005, source, fontsize=7, color="#555555")
+    fig.tight_layout(rect=(0, 0.02, 1, 0.93))
+    fig.savefig(path, dpi=110)
+    plt.close(fig)
+    return path
+
+
+def plot_witness(diagrams, path, *, sites: dict, window, labels, site_names=None, n_states: int = 2,
+                 title: str = "") -> Path:
+    """Four space-time rasters (two signs x two contexts) of one code instance.
+
+    ``diagrams[i][j]`` is the ``(times, sites)`` raster of sign ``j`` under
+    context ``i``; ``sites`` maps ``signs``/``contexts``/``readout`` to index
+    arrays; ``window`` is ``(t0, t1)``; ``labels[i][j]`` titles each panel.
+    """
+    path = Path(path)
+    times, n_sites = diagrams[0][0].shape
+    width = min(14.0, 3.0 + 0.18 * n_sites * 2)
+    height = min(14.0, 2.0 + 0.16 * times * 2)
+    fig, axes = plt.subplots(2, 2, figsize=(width, height), squeeze=False)
+    cmap = plt.get_cmap("Greys", n_states)
+    t0, t1 = window
+    for i in range(2):
+        for j in range(2):
+            ax = axes[i, j]
+            ax.imshow(diagrams[i][j], cmap=cmap, vmin=0, vmax=n_states - 1, interpolation="nearest", aspect="auto")
+            readout = np.asarray(sites["readout"])
+            for site in readout:
+                ax.add_patch(Rectangle((site - 0.5, t0 - 0.5), 1, t1 - t0 + 1, facecolor=SITE_COLOURS["readout"],
+                                       alpha=0.35, edgecolor=SITE_COLOURS["readout"], linewidth=1.2, zorder=3))
+            ax.axhspan(t0 - 0.5, t1 + 0.5, color="#f0c419", alpha=0.12, zorder=2)
+            for kind in ("signs", "contexts", "readout"):
+                marks = np.asarray(sites[kind])
+                ax.scatter(marks, np.full(marks.shape, -0.9), marker="v", s=28, color=SITE_COLOURS[kind],
+                           clip_on=False, zorder=4)
+            ax.set_ylim(times - 0.5, -1.4)
+            ax.set_title(labels[i][j], fontsize=9)
+            ax.set_ylabel("time")
+            if site_names is not None and n_sites <= 40:
+                ax.set_xticks(range(n_sites))
+                ax.set_xticklabels(site_names, rotation=90, fontsize=7)
+            else:
+                ax.set_xlabel("site")
+    handles = [plt.Line2D([], [], linestyle="", marker="v", color=colour, label=kind)
+               for kind, colour in SITE_COLOURS.items()]
+    handles.append(Rectangle((0, 0), 1, 1, color="#f0c419", alpha=0.3, label=f"readout window {t0}:{t1}"))
+    fig.legend(handles=handles, loc="lower center", ncol=4, fontsize=8, frameon=False)
+    fig.suptitle(title, fontsize=10)
+    fig.tight_layout(rect=(0, 0.05, 1, 0.95))
+    fig.savefig(path, dpi=110)
+    plt.close(fig)
+    return path
