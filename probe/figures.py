@@ -14,6 +14,7 @@ import matplotlib
 
 matplotlib.use("Agg")
 import matplotlib.pyplot as plt  # noqa: E402
+import matplotlib.ticker  # noqa: E402,F401
 import numpy as np  # noqa: E402
 from matplotlib.patches import Rectangle  # noqa: E402
 
@@ -93,38 +94,44 @@ def plot_witness(diagrams, path, *, sites: dict, window, labels, site_names=None
     """
     path = Path(path)
     times, n_sites = diagrams[0][0].shape
-    width = min(14.0, 3.0 + 0.18 * n_sites * 2)
-    height = min(14.0, 2.0 + 0.16 * times * 2)
+    width = min(16.0, 2.5 + 0.32 * n_sites * 2)
+    height = min(16.0, 2.6 + 0.32 * (times + 3) * 2)
     fig, axes = plt.subplots(2, 2, figsize=(width, height), squeeze=False)
     cmap = plt.get_cmap("Greys", n_states)
     t0, t1 = window
+    # Inputs are marked above t = 0, where they are written; the readout below the last row.
+    rows = {"signs": -1.0, "contexts": -1.0, "readout": times + 0.1}
+    shapes = {"signs": "v", "contexts": "v", "readout": "^"}
     for i in range(2):
         for j in range(2):
             ax = axes[i, j]
-            ax.imshow(diagrams[i][j], cmap=cmap, vmin=0, vmax=n_states - 1, interpolation="nearest", aspect="auto")
-            readout = np.asarray(sites["readout"])
-            for site in readout:
+            ax.imshow(diagrams[i][j], cmap=cmap, vmin=0, vmax=n_states - 1, interpolation="nearest", aspect="equal")
+            for site in np.asarray(sites["readout"]):
                 ax.add_patch(Rectangle((site - 0.5, t0 - 0.5), 1, t1 - t0 + 1, facecolor=SITE_COLOURS["readout"],
                                        alpha=0.35, edgecolor=SITE_COLOURS["readout"], linewidth=1.2, zorder=3))
-            ax.axhspan(t0 - 0.5, t1 + 0.5, color="#f0c419", alpha=0.12, zorder=2)
+            ax.axhspan(t0 - 0.5, t1 + 0.5, color="#f0c419", alpha=0.15, zorder=2)
             for kind in ("signs", "contexts", "readout"):
                 marks = np.asarray(sites[kind])
-                ax.scatter(marks, np.full(marks.shape, -0.9), marker="v", s=28, color=SITE_COLOURS[kind],
-                           clip_on=False, zorder=4)
-            ax.set_ylim(times - 0.5, -1.4)
+                ax.scatter(marks, np.full(marks.shape, rows[kind]), marker=shapes[kind], s=30,
+                           color=SITE_COLOURS[kind], clip_on=False, zorder=4)
+            ax.set_ylim(times + 0.6, -1.6)
+            ax.set_xlim(-0.5, n_sites - 0.5)
             ax.set_title(labels[i][j], fontsize=9)
             ax.set_ylabel("time")
+            ax.yaxis.set_major_locator(matplotlib.ticker.MaxNLocator(integer=True))
             if site_names is not None and n_sites <= 40:
                 ax.set_xticks(range(n_sites))
                 ax.set_xticklabels(site_names, rotation=90, fontsize=7)
             else:
-                ax.set_xlabel("site")
-    handles = [plt.Line2D([], [], linestyle="", marker="v", color=colour, label=kind)
+                ax.xaxis.set_major_locator(matplotlib.ticker.MaxNLocator(integer=True))
+                if i == 1:
+                    ax.set_xlabel("site")
+    handles = [plt.Line2D([], [], linestyle="", marker=shapes[kind], color=colour, label=f"{kind.rstrip('s')} sites")
                for kind, colour in SITE_COLOURS.items()]
     handles.append(Rectangle((0, 0), 1, 1, color="#f0c419", alpha=0.3, label=f"readout window {t0}:{t1}"))
     fig.legend(handles=handles, loc="lower center", ncol=4, fontsize=8, frameon=False)
     fig.suptitle(title, fontsize=10)
-    fig.tight_layout(rect=(0, 0.05, 1, 0.95))
+    fig.tight_layout(rect=(0, 0.05, 1, 0.95), h_pad=2.0)
     fig.savefig(path, dpi=110)
     plt.close(fig)
     return path

@@ -106,7 +106,8 @@ def draw_witness(medium, layout, path, *, seed: int = 0, max_runs=None, title: s
                         f"meaning {meaning_text(resolved, int(meaning))}")
         labels.append(line)
     sites = {"signs": resolved.sign_sites, "contexts": resolved.context_sites, "readout": resolved.readout_sites}
-    heading = title or f"code witness: {medium!r}, layout {resolved.layout.name!r}"
+    heading = title or (f"code witness: {medium!r}, layout {resolved.layout.name!r}\n"
+                        f"patterns list their sites in layout order; the meaning swaps with the context")
     plot_witness(diagrams, path, sites=sites, window=resolved.layout.window, labels=labels,
                  site_names=medium.site_names(), n_states=resolved.n_states, title=heading)
     return witness, path
