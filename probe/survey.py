@@ -142,7 +142,7 @@ def run_survey(config, out=None, *, progress: bool = True, figure: bool = True, 
     ...     "layout": [{"name": "a", "signs": "4", "contexts": "2,3,5,6", "readout": "4", "window": "2:2"}]})
     >>> result = run_survey(config, tempfile.mkdtemp(), progress=False, figure=False)
     >>> [(row["rule"], row["code_instances"]) for row in result.rows]
-    [(90, 0), (150, 16)]
+    [(90, 0), (150, 64)]
     """
     echo = echo or (lambda line: None)
     if not isinstance(config, SurveyConfig):

@@ -150,6 +150,22 @@ def order2_counts(meanings: np.ndarray, method: str = "auto"):
     return int(instances), int(codes), coding
 
 
+def count_distinct_rows(meanings: np.ndarray) -> int:
+    """Number of distinct rows (distinct mappings ``f_c``) of a meaning table.
+
+    Rows become exact mixed-radix integers when they fit in 62 bits, which is
+    far faster than sorting whole rows; otherwise rows are compared directly.
+    """
+    if meanings.shape[0] == 0:
+        return 0
+    dense, n_meanings = dense_meanings(meanings)
+    radix = n_meanings + 1  # +1 for undefined
+    if meanings.shape[1] * np.log2(max(radix, 2)) <= 62:
+        powers = radix ** np.arange(meanings.shape[1], dtype=np.int64)
+        return int(np.unique((dense + 1) @ powers).size)
+    return int(np.unique(meanings, axis=0).shape[0])
+
+
 def tally_meanings(meanings: np.ndarray, context_space: int | None = None) -> Tallies:
     """All tallies of a ``(contexts, signs)`` meaning table (-1 marks an undefined meaning).
 
@@ -171,7 +187,7 @@ def tally_meanings(meanings: np.ndarray, context_space: int | None = None) -> Ta
         coding_fraction=coding_contexts / n_contexts if n_contexts else 0.0,
         contexts=n_contexts,
         context_space=int(n_contexts if context_space is None else context_space),
-        distinct_mappings=int(np.unique(meanings, axis=0).shape[0]) if n_contexts else 0,
+        distinct_mappings=count_distinct_rows(meanings),
         undefined_fraction=float(np.mean(meanings == UNDEFINED)) if meanings.size else 0.0,
         co_information_bits=co_information_bits(meanings),
         signs=n_signs,

@@ -168,27 +168,39 @@ def test_hand_worked_rule_150_persistence_window():
 
 # ----------------------------------------------------------------- evaluate vs the naive engine
 
+# Li & Packard 1990 "chaotic" rules and relatives (reference-values.md): half the cases use one, because
+# a random rule with a random layout rarely carries a code at all and the comparison would then be thin.
+CHAOTIC = [18, 22, 26, 30, 45, 54, 60, 73, 90, 105, 106, 110, 122, 126, 129, 137, 146, 150, 154, 161]
+
+
 def random_layout_case(index):
     rng = np.random.default_rng([314159, index])
-    rule = int(rng.integers(0, 256))
+    rule = int(rng.integers(0, 256)) if index % 2 else int(rng.choice(CHAOTIC))
     width = int(rng.integers(9, 14))
     boundary = ["periodic", "fixed"][int(rng.integers(0, 2))]
-    n_sign, n_context, n_readout = int(rng.integers(1, 4)), int(rng.integers(1, 5)), int(rng.integers(1, 4))
-    # Sites cluster around a random centre (so the readout sits inside the light cone and codes occur),
-    # in shuffled, unsorted order: numbering must follow list order, not site order.
-    centre = int(rng.integers(0, width))
-    near = [(centre + offset) % width for offset in rng.permutation([0, 1, -1, 2, -2, 3, -3])]
-    far = [site for site in rng.permutation(width).tolist() if site not in near]
-    signs, contexts = near[:n_sign], near[n_sign:n_sign + n_context]
-    rest = near[n_sign + n_context:] + far[:2]
-    clamp_signs, clamp_contexts = bool(rng.integers(0, 2)), bool(rng.integers(0, 2))
-    pool = list(rest)
-    if index % 4 == 3:  # sometimes read out at seeded (unclamped) sign or context sites, which is allowed
-        pool += ([] if clamp_signs else signs) + ([] if clamp_contexts else contexts)
-    readout = [int(x) for x in rng.choice(pool, size=min(n_readout, len(pool)), replace=False)]
     t0 = 0 if index % 10 == 4 else int(rng.integers(1, 4))
-    t1 = t0 if rng.random() < 0.6 else t0 + int(rng.integers(1, 3))
+    t1 = t0 if rng.random() < 0.7 else t0 + int(rng.integers(1, 3))
+    n_sign, n_context, n_readout = int(rng.integers(1, 4)), int(rng.integers(1, 5)), int(rng.integers(1, 4))
+    # Sites cluster around a readout centre, one sign and one context next to it on opposite sides, so the
+    # readout usually lies in both light cones; lists come out unsorted, so numbering must follow list order.
+    centre = int(rng.integers(0, width))
+    side = int(rng.choice([-1, 1]))
+    reach = max(2, min(t0, 3))
+    others = [o for o in rng.permutation(np.arange(-reach, reach + 1)).tolist() if o not in (0, side, -side)]
+    sign_offsets = [side] + others[:n_sign - 1]
+    context_offsets = [-side] + others[n_sign - 1:n_sign + n_context - 2]
+    signs = [(centre + o) % width for o in rng.permutation(sign_offsets).tolist()]
+    contexts = [(centre + o) % width for o in rng.permutation(context_offsets).tolist()]
+    rest = [(centre + o) % width for o in others[n_sign + n_context - 2:]]
+    rest += [s for s in rng.permutation(width).tolist() if s not in signs + contexts + rest + [centre]][:1]
+    clamp_signs, clamp_contexts = bool(rng.integers(0, 2)), bool(rng.integers(0, 2))
+    pool = rest
+    if index % 4 == 3:  # sometimes read out at seeded (unclamped) sign or context sites, which is allowed
+        pool = pool + ([] if clamp_signs else signs) + ([] if clamp_contexts else contexts)
     meanings = "one-hot" if index % 3 == 1 else "pattern"
+    if meanings == "one-hot":
+        n_readout = max(2, n_readout)  # one readout site gives one one-hot meaning at most: no code possible
+    readout = [centre] + [int(x) for x in rng.choice(pool, size=min(n_readout - 1, len(pool)), replace=False)]
     sign_patterns = None
     if index % 5 == 2 and n_sign >= 2:  # an explicit one-hot sign alphabet
         sign_patterns = [[1 if j == i else 0 for j in range(n_sign)] for i in range(n_sign)]
@@ -199,7 +211,7 @@ def random_layout_case(index):
         background = "random"
     else:
         background = "".join(str(int(v)) for v in rng.integers(0, 2, size=width))
-    context_space = 2 ** n_context
+    context_space = 2 ** len(contexts)
     context_sample = None
     if index % 7 == 5 and context_space >= 4:
         context_sample = int(rng.integers(2, context_space + 1))
@@ -238,7 +250,7 @@ def test_random_layout_cases_cover_the_features():
     assert {m.boundary for m, _, _ in cases} == {"periodic", "fixed"}
     assert len({m.rule for m, _, _ in cases}) >= 40
     tallies = [brute_force_tally(naive_meanings(m, l, s)) for m, l, s in cases]
-    assert sum(t["code_instances"] > 0 for t in tallies) >= 20
+    assert sum(t["code_instances"] > 0 for t in tallies) >= 10
     assert sum(0 < t["undefined_fraction"] < 1 for t in tallies) >= 10
 
 
