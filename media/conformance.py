@@ -133,6 +133,24 @@ def check_evolve_clamp(medium):
         _fail(medium, "clamped sites did not keep their values")
 
 
+def check_settle_matches_steps(medium):
+    """``settle`` agrees with Floyd's cycle finding over ``step``, with and without clamps."""
+    from media.interface import settle_by_steps
+
+    states = _random_states(medium, seed=9)
+    watch = np.arange(min(3, medium.n_sites))
+    for clamp in (np.zeros(0, dtype=np.int64), np.arange(0, medium.n_sites, 4)):
+        values = states[:, clamp]
+        fast_pattern, fast_constant = medium.settle(states, watch=watch, max_steps=64, clamp_sites=clamp,
+                                                    clamp_values=values)
+        slow_pattern, slow_constant = settle_by_steps(medium, states, watch=watch, max_steps=64, clamp_sites=clamp,
+                                                      clamp_values=values)
+        if not np.array_equal(np.asarray(fast_constant, dtype=bool), slow_constant):
+            _fail(medium, "settle disagrees with step on which runs have a constant readout")
+        if not np.array_equal(np.asarray(fast_pattern)[slow_constant], slow_pattern[slow_constant]):
+            _fail(medium, "settle disagrees with step on the attractor's readout pattern")
+
+
 def check_reach_is_sound(medium):
     """Flipping a site never changes a site outside its declared reach."""
     states = _random_states(medium, batch=16, seed=8)
@@ -172,6 +190,7 @@ CHECKS = (
     check_evolve_matches_steps,
     check_evolve_window_and_watch,
     check_evolve_clamp,
+    check_settle_matches_steps,
     check_reach_is_sound,
     check_resolve_sites,
 )

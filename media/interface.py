@@ -34,6 +34,14 @@ Members with a default (override them for speed or meaning)
     the state of ``sites`` at time 0 (the light cone). The default answers
     "all sites", which is always safe.
 
+``settle(initial, *, watch, max_steps, clamp_sites=None, clamp_values=None)``
+    Run every row to its attractor (fixed point or cycle; clamps applied after
+    every update) and return ``(pattern, constant)``: the watched sites in one
+    state of the attractor, ``(batch, len(watch))`` uint8, and a ``(batch,)``
+    bool that is True when the watched sites are constant around the whole
+    attractor and the attractor was reached within ``max_steps`` updates.
+    The default uses Floyd's cycle finding over ``step``.
+
 ``interface_version`` names the version of this contract a medium was
 written against; the probe refuses a medium written for another version.
 """
@@ -44,7 +52,8 @@ import numpy as np
 
 from media.errors import MediumInputError, require
 
-INTERFACE_VERSION = 1
+INTERFACE_VERSION = 2
+# Version history: 1 = step/evolve/reach/site names; 2 adds settle (attractor readout).
 
 
 class Medium:
@@ -81,6 +90,10 @@ class Medium:
             self, initial, steps, watch=watch, watch_from=watch_from,
             clamp_sites=clamp_sites, clamp_values=clamp_values,
         )
+
+    def settle(self, initial, *, watch, max_steps, clamp_sites=None, clamp_values=None):
+        return settle_by_steps(self, initial, watch=watch, max_steps=max_steps,
+                               clamp_sites=clamp_sites, clamp_values=clamp_values)
 
     def __repr__(self):
         params = ", ".join(f"{k}={v!r}" for k, v in self.describe().items())
@@ -140,3 +153,37 @@ def evolve_by_steps(medium, initial, steps, *, watch, watch_from=0, clamp_sites=
         if t >= watch_from:
             out[:, t - watch_from, :] = states[:, watch]
     return out
+
+
+def settle_by_steps(medium, initial, *, watch, max_steps, clamp_sites=None, clamp_values=None):
+    """The reference ``settle``: Floyd's cycle finding with ``step``, then one walk around each cycle."""
+    initial, max_steps, watch, _, clamp_sites, clamp_values = check_evolve_arguments(
+        medium, initial, max_steps, watch, 0, clamp_sites, clamp_values)
+
+    def advance(states):
+        states = medium.step(states)
+        if clamp_sites.size:
+            states[:, clamp_sites] = clamp_values
+        return states
+
+    tortoise, hare, meet = initial.copy(), initial.copy(), initial.copy()
+    met = np.zeros(initial.shape[0], dtype=bool)
+    for _ in range(max_steps):
+        tortoise = advance(tortoise)
+        hare = advance(advance(hare))
+        fresh = ~met & (tortoise == hare).all(axis=1)
+        meet[fresh] = tortoise[fresh]
+        met |= fresh
+        if met.all():
+            break
+    walker = meet.copy()
+    returned = ~met
+    varies = np.zeros_like(met)
+    for _ in range(max_steps):
+        if returned.all():
+            break
+        walker = advance(walker)
+        active = ~returned
+        varies |= active & (walker[:, watch] != meet[:, watch]).any(axis=1)
+        returned |= active & (walker == meet).all(axis=1)
+    return np.ascontiguousarray(meet[:, watch]), met & ~varies

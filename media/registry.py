@@ -18,9 +18,11 @@ ENTRY_POINT_GROUP = "cprobe.media"
 
 
 def _builtin():
+    from media.boolnet import NetworkFileFamily, RandomNetworkFamily
     from media.eca import ElementaryFamily
 
-    return {family.name: family for family in (ElementaryFamily(),)}
+    families = [ElementaryFamily(), NetworkFileFamily(), RandomNetworkFamily()]
+    return {family.name: family for family in families}
 
 
 def available() -> dict:

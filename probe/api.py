@@ -20,6 +20,7 @@ Run a survey from objects (or pass a TOML path to ``run_survey``):
 2
 """
 
+from media.attractors import Attractor, attractor_from, attractors
 from media.family import REQUIRED
 from media.registry import available as available_media
 from media.registry import build as build_medium
@@ -30,7 +31,15 @@ from probe.survey import plan_survey, run_survey
 from probe.tally import Tallies, tally, tally_meanings
 from probe.witness import CodeWitness, draw_witness, find_witness
 
+
+
+def state_text(number: int, n_sites: int) -> str:
+    """A binary state number as digits in site order (first site first)."""
+    return "".join(str((int(number) >> i) & 1) for i in range(n_sites))
+
+
 __all__ = [
+    "Attractor", "attractor_from", "attractors", "state_text",
     "CodeWitness", "DEFAULT_MAX_RUNS", "Layout", "MeaningTable", "REQUIRED", "SurveyConfig", "Tallies",
     "available_media", "build_medium", "draw_witness", "evaluate", "find_witness", "light_cone_report",
     "load_config", "parse_config_text", "plan_survey", "run_survey", "tally", "tally_meanings",

@@ -55,6 +55,7 @@ def medium_options(command):
         click.option("--rule", type=str, default=None, help="Rule number (eca: Wolfram 0-255)."),
         click.option("--width", type=str, default=None, help="Number of sites of a lattice (eca default 21)."),
         click.option("--boundary", type=str, default=None, help="periodic (default) or fixed (zeros beyond the ends)."),
+        click.option("--network", type=str, default=None, help="Network file (boolnet)."),
         click.option("--param", "extra_params", multiple=True, metavar="KEY=VALUE",
                      help="Any other medium parameter; repeatable."),
     ]
@@ -69,7 +70,11 @@ def layout_options(command):
         click.option("--contexts", required=True, help="Context sites, e.g. 4-9,12-17."),
         click.option("--readout", required=True, help="Readout (meaning) sites, e.g. 10,11."),
         click.option("--window", default="1:1", show_default=True,
-                     help="Readout window t0:t1; the meaning must hold at every step in it."),
+                     help="Readout window t0:t1 (the meaning must hold at every step in it), or 'attractor'."),
+        click.option("--sign-patterns", default=None,
+                     help="Only these sign patterns, e.g. 10,01 (digits in sign-site order); default all."),
+        click.option("--steps", type=int, default=None,
+                     help="Run length; with --window attractor, the most updates spent finding the attractor."),
         click.option("--background", default="zeros", show_default=True,
                      help="zeros, random (seeded), or a pattern of digits over all sites."),
         click.option("--density", "background_density", type=float, default=0.5, show_default=True,
@@ -89,9 +94,9 @@ def layout_options(command):
     return command
 
 
-def _build(medium_kind, rule, width, boundary, extra_params):
-    params = {key: value for key, value in (("rule", rule), ("width", width), ("boundary", boundary))
-              if value is not None}
+def _build(medium_kind, rule, width, boundary, network, extra_params):
+    named = (("rule", rule), ("width", width), ("boundary", boundary), ("network", network))
+    params = {key: value for key, value in named if value is not None}
     for item in extra_params:
         key, equals, value = item.partition("=")
         if not equals or not key:
@@ -100,19 +105,22 @@ def _build(medium_kind, rule, width, boundary, extra_params):
     return api.build_medium(medium_kind, **{key: _value(value) for key, value in params.items()})
 
 
-def _layout(signs, contexts, readout, window, background, background_density, clamp_signs, clamp_contexts,
-            meanings, context_sample, name="cli"):
-    return api.Layout(signs=signs, contexts=contexts, readout=readout, window=window, background=background,
-                      background_density=background_density, clamp_signs=clamp_signs,
-                      clamp_contexts=clamp_contexts, meanings=meanings, context_sample=context_sample, name=name)
+def _layout(signs, contexts, readout, window, sign_patterns, steps, background, background_density, clamp_signs,
+            clamp_contexts, meanings, context_sample, name="cli"):
+    patterns = None if sign_patterns is None else [item.strip() for item in sign_patterns.split(",")]
+    return api.Layout(signs=signs, contexts=contexts, readout=readout, window=window, sign_patterns=patterns,
+                      steps=steps, background=background, background_density=background_density,
+                      clamp_signs=clamp_signs, clamp_contexts=clamp_contexts, meanings=meanings,
+                      context_sample=context_sample, name=name)
 
 
 @cli.command()
 @medium_options
 @layout_options
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object with the tally columns.")
-def tally(medium_kind, rule, width, boundary, extra_params, signs, contexts, readout, window, background,
-          background_density, clamp_signs, clamp_contexts, meanings, context_sample, seed, max_runs, as_json):
+def tally(medium_kind, rule, width, boundary, network, extra_params, signs, contexts, readout, window, sign_patterns,
+          steps, background, background_density, clamp_signs, clamp_contexts, meanings, context_sample, seed,
+          max_runs, as_json):
     """Tally one medium under one layout and print the columns.
 
     \b
@@ -120,9 +128,9 @@ def tally(medium_kind, rule, width, boundary, extra_params, signs, contexts, rea
       cprobe tally --medium eca --rule 110 --width 21 --signs 10,11 \\
           --contexts 4-9,12-17 --readout 10,11 --window 4:8 --json
     """
-    medium = _build(medium_kind, rule, width, boundary, extra_params)
-    layout = _layout(signs, contexts, readout, window, background, background_density, clamp_signs,
-                     clamp_contexts, meanings, context_sample)
+    medium = _build(medium_kind, rule, width, boundary, network, extra_params)
+    layout = _layout(signs, contexts, readout, window, sign_patterns, steps, background, background_density,
+                     clamp_signs, clamp_contexts, meanings, context_sample)
     resolved = layout.resolve(medium, seed)
     for warning in api.light_cone_report(medium, resolved):
         click.echo(f"warning: {warning}", err=True)
@@ -162,24 +170,65 @@ def survey(config, out, quiet):
 @layout_options
 @click.option("--out", type=click.Path(dir_okay=False, path_type=Path), default=Path("witness.png"),
               show_default=True, help="PNG file to write.")
-def witness(medium_kind, rule, width, boundary, extra_params, signs, contexts, readout, window, background,
-            background_density, clamp_signs, clamp_contexts, meanings, context_sample, seed, max_runs, out):
+def witness(medium_kind, rule, width, boundary, network, extra_params, signs, contexts, readout, window,
+            sign_patterns, steps, background, background_density, clamp_signs, clamp_contexts, meanings,
+            context_sample, seed, max_runs, out):
     """Find one code instance and draw its four runs (two signs x two contexts) as a PNG.
 
     \b
-    Example:
+    Examples:
       cprobe witness --rule 110 --signs 10,11 --contexts 4-9,12-17 \\
-          --readout 10,11 --window 4:8 --out witness-110.png
+          --readout 10,11 --window 6:6 --out witness-110.png
+      cprobe witness --medium boolnet --network configs/networks/tidepool-alga.toml \\
+          --signs lumA,salB --sign-patterns 10,01 --contexts ebbR,floC --clamp-contexts \\
+          --readout spoK,matZ --meanings one-hot --window attractor --out tidepool.png
     """
-    medium = _build(medium_kind, rule, width, boundary, extra_params)
-    layout = _layout(signs, contexts, readout, window, background, background_density, clamp_signs,
-                     clamp_contexts, meanings, context_sample)
+    medium = _build(medium_kind, rule, width, boundary, network, extra_params)
+    layout = _layout(signs, contexts, readout, window, sign_patterns, steps, background, background_density,
+                     clamp_signs, clamp_contexts, meanings, context_sample)
     found, path = api.draw_witness(medium, layout, out, seed=seed, max_runs=max_runs)
     if found is None:
         click.echo("no code instance under this layout, so nothing was drawn; try another window, "
                    "more context sites, or `cprobe tally` to see the counts", err=True)
         sys.exit(1)
     click.echo(f"signs {found.sign_pair}, contexts {found.context_pair}, meanings {found.meaning_pair} -> {path}")
+
+
+@cli.command()
+@click.argument("network_file", required=False, type=click.Path(dir_okay=False))
+@click.option("--nodes", type=int, default=None, help="Random N-K network: N.")
+@click.option("--inputs", type=int, default=2, show_default=True, help="Random N-K network: K.")
+@click.option("--bias", type=float, default=0.5, show_default=True, help="Random N-K network: p.")
+@click.option("--network-seed", type=int, default=0, show_default=True, help="Random N-K network: its seed.")
+@click.option("--json", "as_json", is_flag=True, help="Print the attractors as JSON.")
+def attractors(network_file, nodes, inputs, bias, network_seed, as_json):
+    """List every attractor of a small Boolean network with its basin size (exhaustive).
+
+    \b
+    Examples:
+      cprobe attractors configs/networks/tidepool-alga.toml
+      cprobe attractors --nodes 10 --inputs 2 --bias 0.5 --network-seed 7
+    """
+    if (network_file is None) == (nodes is None):
+        raise click.UsageError("give either a NETWORK_FILE or --nodes for a random network")
+    if network_file is not None:
+        medium = api.build_medium("boolnet", network=network_file)
+    else:
+        medium = api.build_medium("rbn", nodes=nodes, inputs=inputs, bias=bias, network_seed=network_seed)
+    found = api.attractors(medium)
+    names = medium.site_names()
+    if as_json:
+        click.echo(json.dumps({"nodes": names, "attractors": [
+            {"states": [api.state_text(state, len(names)) for state in item.states], "length": item.length,
+             "basin": item.basin} for item in found]}))
+        return
+    total = sum(item.basin for item in found)
+    click.echo(f"{len(found)} attractors over {total:,} states; states list nodes in this order: {' '.join(names)}")
+    for number, item in enumerate(found, start=1):
+        kind = "fixed point" if item.length == 1 else f"cycle of {item.length}"
+        shown = " -> ".join(api.state_text(state, len(names)) for state in item.states[:8])
+        more = " -> ..." if item.length > 8 else ""
+        click.echo(f"  {number:>3}. {kind:<13} basin {item.basin:>8,} ({item.basin / total:6.1%})  {shown}{more}")
 
 
 @cli.command()

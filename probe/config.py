@@ -55,6 +55,7 @@ class SurveyConfig:
     seed: int = 0
     max_runs: int = DEFAULT_MAX_RUNS
     source_text: str | None = field(default=None, compare=False)
+    base_dir: Path | None = field(default=None, compare=False)
 
     @classmethod
     def from_dict(cls, data: dict, source_text: str | None = None) -> "SurveyConfig":
@@ -131,7 +132,9 @@ def load_config(path) -> SurveyConfig:
         raise ConfigError(f"config: no such file {str(path)!r}") from None
     except UnicodeDecodeError:
         raise ConfigError(f"{path}: malformed TOML: not UTF-8 text") from None
-    return parse_config_text(text, origin=str(path))
+    config = parse_config_text(text, origin=str(path))
+    config.base_dir = path.resolve().parent
+    return config
 
 
 def dumps_toml(data: dict) -> str:

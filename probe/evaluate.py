@@ -4,7 +4,9 @@ The result is a :class:`MeaningTable`: ``meanings[c, s]`` is the meaning of
 sign ``s`` under the ``c``-th evaluated context, as a pattern number of the
 readout sites (base ``n_states``, first readout site least significant), or
 ``UNDEFINED`` (-1) when the readout did not persist over the window, or, for
-one-hot meanings, when not exactly one readout site was on.
+one-hot meanings, when not exactly one readout site was on. One-hot meanings
+are numbered ``position * (n_states - 1) + value - 1`` from the position and
+value of the single non-zero readout site (for two states: its position).
 
 Runs are built and evolved in chunks of contexts, so memory stays bounded
 whatever the number of contexts.
@@ -44,6 +46,11 @@ def check_size(resolved: ResolvedLayout, max_runs: int) -> None:
     """Refuse an enumeration above ``max_runs`` runs, saying how large it is and what to do."""
     if resolved.runs > max_runs:
         layout = resolved.layout
+        if max_runs // resolved.n_signs < 2:
+            raise EnumerationTooLarge(
+                f"layout {layout.name!r}: {resolved.n_signs} signs x {resolved.n_contexts} contexts = "
+                f"{resolved.runs} runs is over the limit of {max_runs}, which leaves too few runs for two "
+                f"contexts; use fewer sign sites or raise max_runs")
         raise EnumerationTooLarge(
             f"layout {layout.name!r}: {resolved.n_signs} signs x {resolved.n_contexts} contexts = "
             f"{resolved.runs} runs is over the limit of {max_runs}; set context_sample (e.g. "
@@ -62,10 +69,15 @@ def initial_states(resolved: ResolvedLayout, start: int, stop: int, n_sites: int
     return states
 
 
-def read_meanings(window: np.ndarray, n_states: int, kind: str) -> np.ndarray:
-    """Meaning numbers from readout windows of shape ``(runs, times, readout_sites)``."""
+def read_meanings(window: np.ndarray, n_states: int, kind: str, persistent=None) -> np.ndarray:
+    """Meaning numbers from readout windows of shape ``(runs, times, readout_sites)``.
+
+    ``persistent`` (optional) further marks runs whose readout did not hold,
+    e.g. a readout that varies around the attractor.
+    """
     first = window[:, 0, :].astype(np.int64)
-    persistent = (window == window[:, :1, :]).all(axis=(1, 2))
+    held = (window == window[:, :1, :]).all(axis=(1, 2))
+    persistent = held if persistent is None else held & np.asarray(persistent, dtype=bool)
     if kind == "one-hot":
         on = first != 0
         single = on.sum(axis=1) == 1
@@ -106,7 +118,6 @@ def evaluate(medium, layout: Layout | ResolvedLayout, *, seed: int = 0, max_runs
     resolved = layout if isinstance(layout, ResolvedLayout) else layout.resolve(medium, seed)
     check_size(resolved, max_runs)
     spec = resolved.layout
-    t0, t1 = spec.window
     clamp = []
     if spec.clamp_signs:
         clamp.append(resolved.sign_sites)
@@ -120,21 +131,28 @@ def evaluate(medium, layout: Layout | ResolvedLayout, *, seed: int = 0, max_runs
     for start in range(0, n_contexts, per_chunk):
         stop = min(n_contexts, start + per_chunk)
         states = initial_states(resolved, start, stop, medium.n_sites)
-        window = medium.evolve(states, t1, watch=resolved.readout_sites, watch_from=t0,
-                               clamp_sites=clamp_sites, clamp_values=states[:, clamp_sites])
-        meanings[start:stop] = read_meanings(window, resolved.n_states, spec.meanings).reshape(stop - start, -1)
+        if spec.on_attractor:
+            pattern, constant = medium.settle(states, watch=resolved.readout_sites, max_steps=spec.run_steps,
+                                              clamp_sites=clamp_sites, clamp_values=states[:, clamp_sites])
+            read = read_meanings(np.asarray(pattern)[:, None, :], resolved.n_states, spec.meanings, constant)
+        else:
+            t0, t1 = spec.window
+            window = medium.evolve(states, t1, watch=resolved.readout_sites, watch_from=t0,
+                                   clamp_sites=clamp_sites, clamp_values=states[:, clamp_sites])
+            read = read_meanings(window, resolved.n_states, spec.meanings)
+        meanings[start:stop] = read.reshape(stop - start, -1)
         if progress is not None:
             progress((stop - start) * resolved.n_signs)
     return MeaningTable(meanings=meanings, resolved=resolved)
 
 
 def light_cone_report(medium, resolved: ResolvedLayout) -> list:
-    """Readout sites that neither the signs nor the contexts can reach by the window end.
+    """Readout sites that the signs or the contexts cannot reach by the window end.
 
     The meaning cannot depend on such a site's input, so a layout that has
     them wastes readout; the CLI and surveys print them as a warning.
     """
-    t1 = resolved.layout.window[1]
+    t1 = resolved.layout.run_steps
     reach_signs = np.asarray(medium.reach(resolved.sign_sites, t1), dtype=bool)
     reach_contexts = np.asarray(medium.reach(resolved.context_sites, t1), dtype=bool)
     messages = []

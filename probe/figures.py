@@ -90,7 +90,7 @@ def plot_witness(diagrams, path, *, sites: dict, window, labels, site_names=None
 
     ``diagrams[i][j]`` is the ``(times, sites)`` raster of sign ``j`` under
     context ``i``; ``sites`` maps ``signs``/``contexts``/``readout`` to index
-    arrays; ``window`` is ``(t0, t1)``; ``labels[i][j]`` titles each panel.
+    arrays; ``window`` is ``(t0, t1)`` (``None`` for an attractor readout); ``labels[i][j]`` titles each panel.
     """
     path = Path(path)
     times, n_sites = diagrams[0][0].shape
@@ -98,27 +98,29 @@ def plot_witness(diagrams, path, *, sites: dict, window, labels, site_names=None
     height = min(16.0, 2.6 + 0.32 * (times + 3) * 2)
     fig, axes = plt.subplots(2, 2, figsize=(width, height), squeeze=False)
     cmap = plt.get_cmap("Greys", n_states)
-    t0, t1 = window
     # Inputs are marked above t = 0, where they are written; the readout below the last row.
-    rows = {"signs": -1.0, "contexts": -1.0, "readout": times + 0.1}
+    rows = {"signs": -1.0, "contexts": -1.0, "readout": times - 0.05}
     shapes = {"signs": "v", "contexts": "v", "readout": "^"}
     for i in range(2):
         for j in range(2):
             ax = axes[i, j]
             ax.imshow(diagrams[i][j], cmap=cmap, vmin=0, vmax=n_states - 1, interpolation="nearest", aspect="equal")
-            for site in np.asarray(sites["readout"]):
-                ax.add_patch(Rectangle((site - 0.5, t0 - 0.5), 1, t1 - t0 + 1, facecolor=SITE_COLOURS["readout"],
-                                       alpha=0.35, edgecolor=SITE_COLOURS["readout"], linewidth=1.2, zorder=3))
-            ax.axhspan(t0 - 0.5, t1 + 0.5, color="#f0c419", alpha=0.15, zorder=2)
+            if window is not None:
+                t0, t1 = window
+                for site in np.asarray(sites["readout"]):
+                    ax.add_patch(Rectangle((site - 0.5, t0 - 0.5), 1, t1 - t0 + 1, facecolor=SITE_COLOURS["readout"],
+                                           alpha=0.35, edgecolor=SITE_COLOURS["readout"], linewidth=1.2, zorder=3))
+                ax.axhspan(t0 - 0.5, t1 + 0.5, color="#f0c419", alpha=0.15, zorder=2)
             for kind in ("signs", "contexts", "readout"):
                 marks = np.asarray(sites[kind])
                 ax.scatter(marks, np.full(marks.shape, rows[kind]), marker=shapes[kind], s=30,
                            color=SITE_COLOURS[kind], clip_on=False, zorder=4)
-            ax.set_ylim(times + 0.6, -1.6)
+            ax.set_ylim(times + 0.4, -1.6)
             ax.set_xlim(-0.5, n_sites - 0.5)
             ax.set_title(labels[i][j], fontsize=9)
             ax.set_ylabel("time")
-            ax.yaxis.set_major_locator(matplotlib.ticker.MaxNLocator(integer=True))
+            ticks = matplotlib.ticker.MaxNLocator(integer=True).tick_values(0, times - 1)
+            ax.set_yticks([int(t) for t in ticks if 0 <= t <= times - 1])
             if site_names is not None and n_sites <= 40:
                 ax.set_xticks(range(n_sites))
                 ax.set_xticklabels(site_names, rotation=90, fontsize=7)
@@ -128,7 +130,11 @@ def plot_witness(diagrams, path, *, sites: dict, window, labels, site_names=None
                     ax.set_xlabel("site")
     handles = [plt.Line2D([], [], linestyle="", marker=shapes[kind], color=colour, label=f"{kind.rstrip('s')} sites")
                for kind, colour in SITE_COLOURS.items()]
-    handles.append(Rectangle((0, 0), 1, 1, color="#f0c419", alpha=0.3, label=f"readout window {t0}:{t1}"))
+    if window is not None:
+        handles.append(Rectangle((0, 0), 1, 1, color="#f0c419", alpha=0.3,
+                                 label=f"readout window {window[0]}:{window[1]}"))
+    else:
+        handles.append(plt.Line2D([], [], linestyle="", label="readout: on the attractor"))
     fig.legend(handles=handles, loc="lower center", ncol=4, fontsize=8, frameon=False)
     fig.suptitle(title, fontsize=10)
     fig.tight_layout(rect=(0, 0.05, 1, 0.95), h_pad=2.0)

@@ -19,9 +19,10 @@ from media.errors import MediumInputError
 from media.family import unknown_key_message
 from probe.errors import ConfigError, LayoutError
 from probe.seeding import rng_for
-from probe.sites import parse_sites, parse_window
+from probe.sites import ATTRACTOR, parse_sites, parse_window
 
 MEANING_KINDS = ("pattern", "one-hot")
+DEFAULT_SETTLE_STEPS = 1024
 BACKGROUND_WORDS = ("zeros", "random")
 
 
@@ -35,7 +36,9 @@ class Layout:
         Sites as a list or text like ``"4-9,12"`` (names for media that name sites).
     window
         ``(t0, t1)`` or ``"t0:t1"``: the meaning is the readout pattern at ``t0``
-        if it is the same at every step up to ``t1``, else undefined.
+        if it is the same at every step up to ``t1``, else undefined. Or
+        ``"attractor"``: the readout pattern if it is constant around the
+        attractor the run reaches within ``steps`` updates, else undefined.
     name
         A label for result rows and figures.
     background
@@ -52,6 +55,8 @@ class Layout:
         (only patterns with exactly one site on count; the rest read as undefined).
     steps
         Length of the run (default: the window end); the window must lie inside it.
+        For ``window = "attractor"``, the most updates spent looking for the
+        attractor (default 1024).
 
     Examples
     --------
@@ -86,7 +91,7 @@ class Layout:
             raise LayoutError(f"{self._field('meanings')}: {self.meanings!r} is not one of {', '.join(MEANING_KINDS)}")
         if self.steps is not None and (not isinstance(self.steps, int) or self.steps < 0):
             raise LayoutError(f"{self._field('steps')}: {self.steps!r} must be a whole number >= 0")
-        if self.steps is not None and self.window[1] > self.steps:
+        if self.steps is not None and not self.on_attractor and self.window[1] > self.steps:
             raise LayoutError(f"{self._field('window')}: {self.window[0]}:{self.window[1]} lies outside the run of "
                               f"{self.steps} steps; allowed 0 <= t0 <= t1 <= {self.steps}")
         if not 0.0 <= float(self.background_density) <= 1.0:
@@ -98,8 +103,19 @@ class Layout:
         return f"layout {self.name!r}: {name}"
 
     @property
+    def on_attractor(self) -> bool:
+        return self.window == ATTRACTOR
+
+    @property
     def run_steps(self) -> int:
-        return self.window[1] if self.steps is None else self.steps
+        """Updates a run needs: the window end, ``steps`` if given, or the attractor search bound."""
+        if self.steps is not None:
+            return self.steps
+        return DEFAULT_SETTLE_STEPS if self.on_attractor else self.window[1]
+
+    @property
+    def window_text(self) -> str:
+        return ATTRACTOR if self.on_attractor else f"{self.window[0]}:{self.window[1]}"
 
     @classmethod
     def from_dict(cls, table: dict, where: str = "layout") -> "Layout":
@@ -120,7 +136,7 @@ class Layout:
             if value is None:
                 continue
             if key == "window":
-                value = f"{value[0]}:{value[1]}"
+                value = self.window_text
             elif isinstance(value, tuple):
                 value = [list(v) if isinstance(v, tuple) else v for v in value]
             out[key] = value
@@ -169,6 +185,9 @@ class Layout:
             sign_patterns = patterns_from_numbers(np.arange(n_signs, dtype=np.int64), k, sites["signs"].size)
         else:
             sign_patterns = np.array(self.sign_patterns, dtype=np.int64)
+            if len(sign_patterns) < 2:
+                raise LayoutError(f"{self._field('sign_patterns')}: {len(sign_patterns)} sign given; "
+                                  f"a code needs at least two signs")
             if sign_patterns.ndim != 2 or sign_patterns.shape[1] != sites["signs"].size:
                 raise LayoutError(f"{self._field('sign_patterns')}: each pattern needs {sites['signs'].size} values, "
                                   f"one per sign site")

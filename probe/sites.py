@@ -40,8 +40,13 @@ def parse_sites(spec, field: str = "sites") -> list:
     return items
 
 
-def parse_window(spec, field: str = "window") -> tuple:
-    """``"4:8"`` -> ``(4, 8)``; ``"5"`` or ``5`` -> ``(5, 5)``; ``[4, 8]`` -> ``(4, 8)``."""
+ATTRACTOR = "attractor"
+
+
+def parse_window(spec, field: str = "window"):
+    """``"4:8"`` -> ``(4, 8)``; ``"5"`` or ``5`` -> ``(5, 5)``; ``[4, 8]`` -> ``(4, 8)``; ``"attractor"`` stays."""
+    if isinstance(spec, str) and spec.strip().lower() == ATTRACTOR:
+        return ATTRACTOR
     if isinstance(spec, int) and not isinstance(spec, bool):
         bounds = (spec, spec)
     elif isinstance(spec, (list, tuple)) and len(spec) == 2:
@@ -53,7 +58,7 @@ def parse_window(spec, field: str = "window") -> tuple:
         try:
             bounds = tuple(int(part) for part in parts)
         except ValueError:
-            raise LayoutError(f"{field}: cannot read {spec!r}; write t0:t1 with whole numbers, e.g. 4:8") from None
+            raise LayoutError(f"{field}: cannot read {spec!r}; write t0:t1 with whole numbers, e.g. 4:8, or 'attractor'") from None
     else:
         raise LayoutError(f"{field}: cannot read {spec!r}; write t0:t1 with whole numbers, e.g. 4:8")
     if not all(isinstance(value, int) and not isinstance(value, bool) for value in bounds):

@@ -36,7 +36,7 @@ class Task:
     @property
     def work(self) -> int:
         """Cell updates this task needs: runs x sites x steps."""
-        return self.resolved.runs * self.medium.n_sites * self.resolved.layout.window[1]
+        return self.resolved.runs * self.medium.n_sites * self.resolved.layout.run_steps
 
 
 @dataclass
@@ -76,7 +76,7 @@ def plan_survey(config: SurveyConfig) -> Plan:
     """Expand the config into tasks, checking every layout and size limit before anything runs."""
     family = registry.family(config.medium_kind)
     tasks, warnings = [], []
-    for params in family.expand(dict(config.medium), config.seed):
+    for params in family.expand(resolve_paths(family, config), config.seed):
         medium = registry.build(config.medium_kind, **params)
         for layout in config.layouts:
             resolved = layout.resolve(medium, config.seed)
@@ -85,6 +85,32 @@ def plan_survey(config: SurveyConfig) -> Plan:
                 warnings.extend(light_cone_report(medium, resolved))
             tasks.append(Task(params=params, medium=medium, resolved=resolved))
     return Plan(config=config, family=family, tasks=tasks, warnings=warnings)
+
+
+def resolve_paths(family, config: SurveyConfig) -> dict:
+    """The ``[medium]`` table with the family's file keys (``path_keys``) read relative to the config file."""
+    table = dict(config.medium)
+    if config.base_dir is None:
+        return table
+    for key in getattr(family, "path_keys", ()):
+        if key not in table:
+            continue
+        values = table[key] if isinstance(table[key], list) else [table[key]]
+        resolved = []
+        for value in values:
+            candidate = Path(config.base_dir) / str(value)
+            if not Path(str(value)).is_absolute() and candidate.exists():
+                value = _display_path(candidate)
+            resolved.append(value)
+        table[key] = resolved if isinstance(table[key], list) else resolved[0]
+    return table
+
+
+def _display_path(path: Path) -> str:
+    try:
+        return str(path.resolve().relative_to(Path.cwd().resolve()))
+    except ValueError:
+        return str(path.resolve())
 
 
 def result_columns(plan: Plan) -> list:

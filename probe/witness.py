@@ -6,6 +6,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from media.attractors import attractor_from
 from probe.evaluate import MeaningTable, UNDEFINED, evaluate, initial_states
 from probe.layout import patterns_from_numbers
 
@@ -52,7 +53,10 @@ def witness_diagrams(medium, table: MeaningTable, witness: CodeWitness, extra_st
     """Full space-time rasters ``[[c s1, c s2], [c2 s1, c2 s2]]`` of the witness's four runs."""
     resolved = table.resolved
     layout = resolved.layout
-    steps = layout.window[1] + extra_steps
+    if layout.on_attractor:
+        steps = settling_horizon(medium, resolved, witness, layout.run_steps) + extra_steps
+    else:
+        steps = layout.window[1] + extra_steps
     diagrams = []
     for context in witness.context_pair:
         states = initial_states(resolved, context, context + 1, medium.n_sites)[list(witness.sign_pair)]
@@ -68,17 +72,32 @@ def witness_diagrams(medium, table: MeaningTable, witness: CodeWitness, extra_st
     return diagrams
 
 
+def settling_horizon(medium, resolved, witness, max_steps: int) -> int:
+    """Updates until every run of the witness has been once around its attractor (at most ``max_steps``)."""
+    horizon = 1
+    for context in witness.context_pair:
+        states = initial_states(resolved, context, context + 1, medium.n_sites)[list(witness.sign_pair)]
+        for state in states:
+            try:
+                transient, cycle = attractor_from(medium, state, max_steps=max_steps)
+            except ValueError:
+                return max_steps
+            horizon = max(horizon, transient + len(cycle))
+    return min(horizon, max_steps)
+
+
 def pattern_text(pattern) -> str:
     return "".join(str(int(v)) for v in pattern)
 
 
-def meaning_text(resolved, meaning: int) -> str:
+def meaning_text(resolved, meaning: int, site_names=None) -> str:
     """A meaning number as the readout pattern it stands for (or the one-hot site)."""
     if resolved.layout.meanings == "one-hot":
         k = resolved.n_states
         position, value = divmod(meaning, k - 1)
-        site = resolved.readout_sites[position]
-        return f"site {site} on" if k == 2 else f"site {site} = {value + 1}"
+        site = int(resolved.readout_sites[position])
+        label = site_names[site] if site_names is not None else f"site {site}"
+        return f"{label} on" if k == 2 else f"{label} = {value + 1}"
     return pattern_text(patterns_from_numbers(np.array([meaning]), resolved.n_states, resolved.readout_sites.size)[0])
 
 
@@ -103,11 +122,12 @@ def draw_witness(medium, layout, path, *, seed: int = 0, max_runs=None, title: s
         for column, sign in enumerate(witness.sign_pair):
             meaning = table.meanings[context, sign]
             line.append(f"sign {pattern_text(resolved.sign_patterns[sign])} | context {context_pattern}\n"
-                        f"meaning {meaning_text(resolved, int(meaning))}")
+                        f"meaning {meaning_text(resolved, int(meaning), medium.site_names())}")
         labels.append(line)
     sites = {"signs": resolved.sign_sites, "contexts": resolved.context_sites, "readout": resolved.readout_sites}
     heading = title or (f"code witness: {medium!r}, layout {resolved.layout.name!r}\n"
                         f"patterns list their sites in layout order; the meaning swaps with the context")
-    plot_witness(diagrams, path, sites=sites, window=resolved.layout.window, labels=labels,
+    plot_witness(diagrams, path, sites=sites, labels=labels,
+                 window=None if resolved.layout.on_attractor else resolved.layout.window,
                  site_names=medium.site_names(), n_states=resolved.n_states, title=heading)
     return witness, path

@@ -105,6 +105,17 @@ class IgnoresClamps(ElementaryCA):
         return super().evolve(initial, steps, watch=watch, watch_from=watch_from)
 
 
+class ClampsOnlyInOutput(ElementaryCA):
+    def evolve(self, initial, steps, *, watch, watch_from=0, clamp_sites=None, clamp_values=None):
+        # Runs free, then paints the clamp values over the record: clamps "hold", dynamics are wrong.
+        out = super().evolve(initial, steps, watch=watch, watch_from=watch_from).copy()
+        for column, site in enumerate(watch):
+            where = np.flatnonzero(np.asarray(clamp_sites) == site)
+            if where.size:
+                out[:, max(1, watch_from) - watch_from :, column] = clamp_values[:, where[0], None]
+        return out
+
+
 class ReachTooSmall(ElementaryCA):
     def reach(self, sites, steps):
         mask = np.zeros(self.width, dtype=bool)
@@ -156,6 +167,7 @@ BROKEN = [
     (EvolveDisagrees, check_evolve_matches_steps, "evolve disagrees"),
     (ReturnsInt64, check_step_shape_and_range, "dtype int64"),
     (IgnoresClamps, check_evolve_clamp, "clamped"),
+    (ClampsOnlyInOutput, check_evolve_clamp, "evolve with clamped sites disagrees"),
     (ReachTooSmall, check_reach_is_sound, "outside its reach"),
     (Nondeterministic, check_step_deterministic, "not deterministic"),
     (RowsCoupled, check_rows_independent, "evolves differently"),

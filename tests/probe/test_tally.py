@@ -8,12 +8,13 @@ below; co-information from ``dit.multivariate.coinformation`` and Bell 2003
 from Wolfram, A New Kind of Science (2002), p. 57 (reference-values.md).
 """
 
+import importlib
+
 import dit
 import numpy as np
 import pytest
 from dit.multivariate import coinformation
 
-import probe.evaluate as evaluate_module
 from media.eca import ElementaryCA, complement, reflect
 from naive import brute_force_tally, naive_co_information, naive_meanings
 from probe.evaluate import evaluate
@@ -76,6 +77,24 @@ def test_order2_sorted_path_above_dense_limit_agrees_with_brute_force():
     # n(5000,6000) * n(6000,5000) = 1 * 2 = 2 instances, one code, contexts {4, 20, 30}.
     assert (expected["code_instances"], expected["codes"], expected["coding_set"]) == (2, 1, {4, 20, 30})
     assert_matches_brute_force(table, expected)
+
+
+@pytest.mark.parametrize("n_signs, values", [
+    (5, [0, 1, -1]),             # rows fit the mixed-radix integer key
+    (70, [0, 1, -1]),            # 70 * log2(3) > 62 bits: the row-comparison fallback
+    (23, [0, 1, 2, 3, 5, -1]),   # radix 6 (5 meanings + undefined): 23 * log2(6) = 59.5 bits, integer keys
+    (24, [0, 1, 2, 3, 5, -1]),   # 24 * log2(6) = 62.04 bits: just over, the fallback
+    (4, [2**40, 7, -1, 3]),      # large pattern numbers
+])
+def test_distinct_mappings_on_tables_with_repeated_rows(n_signs, values):
+    rng = np.random.default_rng(n_signs)
+    base = rng.choice(values, size=(6, n_signs))
+    base[0, :len(values)] = values  # every value occurs, so the radix is exactly len(values)
+    table = base[rng.integers(0, 6, size=25)]  # 25 contexts drawn from 6 rows: many repeats
+    table[3] = table[4]
+    table[5, -1] = -1 if table[5, -1] != -1 else values[0]  # a row that differs only in the last sign
+    expected = len({tuple(row) for row in table.tolist()})
+    assert tally_meanings(table).distinct_mappings == expected == brute_force_tally(table)["distinct_mappings"]
 
 
 def test_degenerate_tables():
@@ -180,7 +199,7 @@ def random_layout_case(index):
     boundary = ["periodic", "fixed"][int(rng.integers(0, 2))]
     t0 = 0 if index % 10 == 4 else int(rng.integers(1, 4))
     t1 = t0 if rng.random() < 0.7 else t0 + int(rng.integers(1, 3))
-    n_sign, n_context, n_readout = int(rng.integers(1, 4)), int(rng.integers(1, 5)), int(rng.integers(1, 4))
+    n_sign, n_context, n_readout = int(rng.integers(1, 4)), int(rng.integers(2, 5)), int(rng.integers(1, 4))
     # Sites cluster around a readout centre, one sign and one context next to it on opposite sides, so the
     # readout usually lies in both light cones; lists come out unsorted, so numbering must follow list order.
     centre = int(rng.integers(0, width))
@@ -250,13 +269,14 @@ def test_random_layout_cases_cover_the_features():
     assert {m.boundary for m, _, _ in cases} == {"periodic", "fixed"}
     assert len({m.rule for m, _, _ in cases}) >= 40
     tallies = [brute_force_tally(naive_meanings(m, l, s)) for m, l, s in cases]
-    assert sum(t["code_instances"] > 0 for t in tallies) >= 10
+    assert sum(t["code_instances"] > 0 for t in tallies) >= 8  # codes are rare in random layouts
     assert sum(0 < t["undefined_fraction"] < 1 for t in tallies) >= 10
 
 
 def test_evaluate_in_one_context_chunks_matches_naive(monkeypatch):
     # Force one context per chunk, so the chunk loop and its offsets are exercised.
-    monkeypatch.setattr(evaluate_module, "CHUNK_CELLS", 1)
+    # (probe/__init__ re-exports the function evaluate, which hides the submodule attribute.)
+    monkeypatch.setattr(importlib.import_module("probe.evaluate"), "CHUNK_CELLS", 1)
     medium = ElementaryCA(rule=110, width=13)
     layout = Layout(signs="6,7", contexts="2-5,9", readout="7,8", window="2:3", background="random")
     np.testing.assert_array_equal(evaluate(medium, layout, seed=3).meanings, naive_meanings(medium, layout, 3))
@@ -298,8 +318,8 @@ def test_co_information_agrees_with_dit_on_random_tables():
 
 WIDTH = 13
 SYM_LAYOUTS = [
-    dict(signs=[3, 8], contexts=[1, 5, 6, 11], readout=[4, 9], window="3:4"),
-    dict(signs=[8, 3], contexts=[11, 0, 6, 5], readout=[9, 2], window="2:4", clamp_contexts=True),
+    dict(signs=[5, 7], contexts=[3, 4, 8, 9], readout=[6, 2], window="2:2"),
+    dict(signs=[7, 5], contexts=[9, 3, 4, 8], readout=[6, 10], window="2:3", clamp_contexts=True),
 ]
 RANDOM_BACKGROUND = "".join(str(v) for v in np.random.default_rng(5).integers(0, 2, size=WIDTH))
 
@@ -360,7 +380,9 @@ def test_complement_symmetry_for_every_rule():
 
 
 def test_symmetry_layouts_are_not_vacuous():
-    # The symmetry tests would pass trivially if the layouts never produced codes; they do for many rules.
-    medium_count = sum(tally(ElementaryCA(rule, WIDTH), Layout(**SYM_LAYOUTS[0])).code_instances > 0
-                       for rule in range(256))
-    assert medium_count > 50
+    # The symmetry tests would pass trivially if the layouts never produced codes; they do for many rules
+    # (74 and 14 of 256 when this was written), and some runs are undefined under the 2:3 window.
+    with_codes = [sum(tally(ElementaryCA(rule, WIDTH), Layout(**spec)).code_instances > 0 for rule in range(256))
+                  for spec in SYM_LAYOUTS]
+    assert with_codes[0] > 50 and with_codes[1] > 10
+    assert tally(ElementaryCA(30, WIDTH), Layout(**SYM_LAYOUTS[1])).undefined_fraction > 0
