@@ -81,8 +81,9 @@ def plan_survey(config: SurveyConfig) -> Plan:
         for layout in config.layouts:
             resolved = layout.resolve(medium, config.seed)
             check_size(resolved, config.max_runs)
-            if not tasks or len(tasks) < len(config.layouts):
-                warnings.extend(light_cone_report(medium, resolved))
+            if len(tasks) < len(config.layouts):  # geometry is shared, so the first instance speaks for all
+                label = family.instance_label(params)
+                warnings.extend(f"{label}: {line}" for line in light_cone_report(medium, resolved))
             tasks.append(Task(params=params, medium=medium, resolved=resolved))
     return Plan(config=config, family=family, tasks=tasks, warnings=warnings)
 
