@@ -126,13 +126,22 @@ def check_evolve_arguments(medium, initial, steps, watch, watch_from, clamp_site
     steps = int(steps)
     watch_from = int(watch_from)
     require(0 <= watch_from <= steps, f"watch_from must lie in 0..steps ({steps}), got {watch_from}")
+    n_sites = medium.n_sites
+    # Kernels index with these without bounds checks, so they are checked here, once.
+    require(initial.size == 0 or int(initial.max()) < medium.n_states,
+            f"initial states must lie in 0..{medium.n_states - 1}, got {int(initial.max()) if initial.size else 0}")
     watch = np.asarray(watch, dtype=np.int64).reshape(-1)
+    require(((watch >= 0) & (watch < n_sites)).all(), f"watch sites must lie in 0..{n_sites - 1}, got {watch.tolist()}")
     if clamp_sites is None or len(clamp_sites) == 0:
         clamp_sites = np.zeros(0, dtype=np.int64)
         clamp_values = np.zeros((initial.shape[0], 0), dtype=np.uint8)
     else:
         clamp_sites = np.asarray(clamp_sites, dtype=np.int64).reshape(-1)
+        require(((clamp_sites >= 0) & (clamp_sites < n_sites)).all(),
+                f"clamp_sites must lie in 0..{n_sites - 1}, got {clamp_sites.tolist()}")
         clamp_values = np.ascontiguousarray(clamp_values, dtype=np.uint8)
+        require(clamp_values.size == 0 or int(clamp_values.max()) < medium.n_states,
+                f"clamp_values must lie in 0..{medium.n_states - 1}")
         require(clamp_values.shape == (initial.shape[0], clamp_sites.size),
                 f"clamp_values must have shape {(initial.shape[0], clamp_sites.size)}, got {clamp_values.shape}")
     return initial, steps, watch, watch_from, clamp_sites, clamp_values

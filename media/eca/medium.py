@@ -29,7 +29,7 @@ class ElementaryCA(Medium):
 
     def __init__(self, rule, width=21, boundary="periodic"):
         self.rule = check_rule(rule)
-        require(not isinstance(width, bool) and str(width).isdigit() and int(width) >= 1,
+        require(not isinstance(width, bool) and str(width).isascii() and str(width).isdigit() and int(width) >= 1,
                 f"width must be a positive integer, got {width!r}")
         self.width = int(width)
         require(boundary in BOUNDARIES, f"boundary must be one of {', '.join(BOUNDARIES)}, got {boundary!r}")

@@ -6,6 +6,7 @@ of the rule number. Reflection and complement follow A New Kind of Science
 (Wolfram 2002, p. 57); under both, the 256 rules fall into 88 classes.
 """
 
+import numbers
 from functools import lru_cache
 
 from media.errors import require
@@ -16,7 +17,7 @@ RULE_COUNT = 256
 def check_rule(rule) -> int:
     """Return ``rule`` as an int, or raise if it is not a Wolfram number 0..255."""
     text = str(rule).strip()
-    require(not isinstance(rule, (bool, float)) and text.isdigit() and int(text) < RULE_COUNT,
+    require(not isinstance(rule, (bool, float)) and text.isascii() and text.isdigit() and int(text) < RULE_COUNT,
             f"rule must be an integer 0..255, got {rule!r}")
     return int(text)
 
@@ -84,7 +85,7 @@ def parse_rule_set(spec) -> list:
             else:
                 require(part.isdigit(), f"rules: cannot read {part!r}; use 'all', 'classes', a list or ranges like '0-15,30'")
                 rules.append(check_rule(int(part)))
-    elif isinstance(spec, int) and not isinstance(spec, bool):
+    elif isinstance(spec, numbers.Integral) and not isinstance(spec, bool):
         rules = [check_rule(spec)]
     else:
         require(isinstance(spec, (list, tuple)), f"rules must be 'all', 'classes', a list or a range string, got {spec!r}")
