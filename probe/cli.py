@@ -24,6 +24,10 @@ class ProbeGroup(click.Group):
         except INPUT_ERRORS as error:
             click.echo(f"error: {error}", err=True)
             ctx.exit(2)
+        except click.UsageError as error:
+            where = error.ctx.command_path if error.ctx is not None else ctx.command_path
+            click.echo(f"error: {error.format_message()} (see `{where} --help`)", err=True)
+            ctx.exit(2)
 
 
 @click.group(cls=ProbeGroup, context_settings={"help_option_names": ["-h", "--help"], "max_content_width": 100})

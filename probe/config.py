@@ -78,7 +78,10 @@ class SurveyConfig:
         if not isinstance(max_runs, int) or isinstance(max_runs, bool) or max_runs < 1:
             raise ConfigError(f"[survey] max_runs: {max_runs!r} must be a whole number >= 1")
 
-        medium = dict(data.get("medium", {}))
+        medium = data.get("medium", {})
+        if not isinstance(medium, dict):
+            raise ConfigError('config: [medium] must be a table, e.g. [medium] kind = "eca"')
+        medium = dict(medium)
         if "kind" not in medium:
             raise ConfigError("[medium]: missing key 'kind' (e.g. kind = \"eca\"; `cprobe media` lists the kinds)")
         kind = medium.pop("kind")
@@ -86,6 +89,8 @@ class SurveyConfig:
         tables = data.get("layout", [])
         if isinstance(tables, dict):
             tables = [tables]
+        if not isinstance(tables, list) or not all(isinstance(table, dict) for table in tables):
+            raise ConfigError("config: layouts must be [[layout]] tables")
         if not tables:
             raise ConfigError("config: no [[layout]] table; give at least one")
         layouts = []
@@ -157,7 +162,7 @@ def _toml_value(value) -> str:
     if isinstance(value, (int, float)):
         return repr(value)
     if isinstance(value, str):
-        return json.dumps(value)
+        return json.dumps(value, ensure_ascii=False).replace("\x7f", "\\u007f")
     if isinstance(value, (list, tuple)):
         return "[" + ", ".join(_toml_value(item) for item in value) + "]"
     raise ConfigError(f"config: cannot write {value!r} as TOML")

@@ -51,10 +51,11 @@ def check_size(resolved: ResolvedLayout, max_runs: int) -> None:
                 f"layout {layout.name!r}: {resolved.n_signs} signs x {resolved.n_contexts} contexts = "
                 f"{resolved.runs} runs is over the limit of {max_runs}, which leaves too few runs for two "
                 f"contexts; use fewer sign sites or raise max_runs")
+        suggestion = max(2, max_runs // resolved.n_signs // 16)
         raise EnumerationTooLarge(
             f"layout {layout.name!r}: {resolved.n_signs} signs x {resolved.n_contexts} contexts = "
-            f"{resolved.runs} runs is over the limit of {max_runs}; set context_sample (e.g. "
-            f"context_sample = {max(2, max_runs // resolved.n_signs // 16)}) to evaluate a seeded sample, "
+            f"{resolved.runs} runs is over the limit of {max_runs}; set context_sample = {suggestion} (--sample "
+            f"{suggestion} on the command line) to evaluate a seeded sample, "
             f"use fewer sign or context sites, or raise max_runs")
 
 

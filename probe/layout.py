@@ -89,12 +89,16 @@ class Layout:
                                                            for p in self.sign_patterns))
         if self.meanings not in MEANING_KINDS:
             raise LayoutError(f"{self._field('meanings')}: {self.meanings!r} is not one of {', '.join(MEANING_KINDS)}")
-        if self.steps is not None and (not isinstance(self.steps, int) or self.steps < 0):
+        if self.steps is not None and (isinstance(self.steps, bool) or not isinstance(self.steps, int) or self.steps < 0):
             raise LayoutError(f"{self._field('steps')}: {self.steps!r} must be a whole number >= 0")
         if self.steps is not None and not self.on_attractor and self.window[1] > self.steps:
             raise LayoutError(f"{self._field('window')}: {self.window[0]}:{self.window[1]} lies outside the run of "
                               f"{self.steps} steps; allowed 0 <= t0 <= t1 <= {self.steps}")
-        if not 0.0 <= float(self.background_density) <= 1.0:
+        for name in ("clamp_signs", "clamp_contexts"):
+            if not isinstance(getattr(self, name), bool):
+                raise LayoutError(f"{self._field(name)}: {getattr(self, name)!r} must be true or false")
+        density = self.background_density
+        if isinstance(density, bool) or not isinstance(density, (int, float)) or not 0.0 <= float(density) <= 1.0:
             raise LayoutError(f"{self._field('background_density')}: {self.background_density!r} must lie in [0, 1]")
         if self.context_sample is not None and (not isinstance(self.context_sample, int) or self.context_sample < 2):
             raise LayoutError(f"{self._field('context_sample')}: {self.context_sample!r} must be a whole number >= 2")

@@ -126,7 +126,7 @@ def test_suggested_context_sample_is_accepted():
     wide = dict(GOOD, contexts="0-4,8-12")  # 4 signs x 1024 contexts
     with pytest.raises(EnumerationTooLarge) as info:
         evaluate(medium(), Layout(**wide), max_runs=2000)
-    suggested = int(str(info.value).split("context_sample = ")[1].split(")")[0])
+    suggested = int(str(info.value).split("context_sample = ")[1].split()[0])
     assert evaluate(medium(), Layout(**wide, context_sample=suggested), max_runs=2000).n_contexts == suggested
 
 
