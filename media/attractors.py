@@ -117,9 +117,14 @@ def attractors(medium) -> list:
     return sorted(found, key=lambda attractor: attractor.states)
 
 
-def attractor_from(medium, state, max_steps: int = 100_000) -> tuple:
-    """``(transient length, cycle of state numbers)`` reached from one start state."""
+def attractor_from(medium, state, max_steps: int = 100_000, clamp_sites=None, clamp_values=None) -> tuple:
+    """``(transient length, cycle of state numbers)`` reached from one start state.
+
+    ``clamp_sites`` (optional) are forced to ``clamp_values`` after every step, as in ``evolve``.
+    """
     current = np.asarray(state, dtype=np.uint8).reshape(1, -1)
+    clamp_sites = np.zeros(0, dtype=np.int64) if clamp_sites is None else np.asarray(clamp_sites, dtype=np.int64)
+    clamp_values = np.asarray(clamp_values if clamp_values is not None else [], dtype=np.uint8).reshape(-1)
     k = int(medium.n_states)
     seen = {}
     for t in range(max_steps + 1):
@@ -130,4 +135,7 @@ def attractor_from(medium, state, max_steps: int = 100_000) -> tuple:
             return first, tuple(order[first:])
         seen[number] = t
         current = medium.step(current)
+        if clamp_sites.size:
+            current = current.copy()
+            current[0, clamp_sites] = clamp_values
     raise ValueError(f"attractor_from: no attractor within max_steps = {max_steps}")

@@ -74,12 +74,17 @@ def witness_diagrams(medium, table: MeaningTable, witness: CodeWitness, extra_st
 
 def settling_horizon(medium, resolved, witness, max_steps: int) -> int:
     """Updates until every run of the witness has been once around its attractor (at most ``max_steps``)."""
+    layout = resolved.layout
+    clamp = [sites for held, sites in ((layout.clamp_signs, resolved.sign_sites),
+                                       (layout.clamp_contexts, resolved.context_sites)) if held]
+    clamp_sites = np.concatenate(clamp) if clamp else np.zeros(0, dtype=np.int64)
     horizon = 1
     for context in witness.context_pair:
         states = initial_states(resolved, context, context + 1, medium.n_sites)[list(witness.sign_pair)]
         for state in states:
             try:
-                transient, cycle = attractor_from(medium, state, max_steps=max_steps)
+                transient, cycle = attractor_from(medium, state, max_steps=max_steps, clamp_sites=clamp_sites,
+                                                  clamp_values=state[clamp_sites])
             except ValueError:
                 return max_steps
             horizon = max(horizon, transient + len(cycle))

@@ -119,7 +119,7 @@ class _Parser:
             self.position += 1
             tree = self.binary(("or", "xor", "and"))
             if self.token.kind != "close":
-                self.fail(f"unbalanced parentheses: '(' at column {token.column} is not closed")
+                self.fail("unbalanced parentheses: '(' is not closed", column=token.column)
             self.position += 1
             return tree
         if token.kind == "name":

@@ -199,6 +199,23 @@ class BooleanNetwork(Medium):
             out[:, node] = table[index]
         return out
 
+    def transition_table(self):
+        """Every node's truth table, concatenated in node order, and the quiescent state: ``(outputs, 0)``.
+
+        An optional capability read by ``probe.measures.langton_lambda``. Langton's lambda over
+        this table is the fraction of 1s among all table entries, that is the mean table bias
+        with each node weighted by its table size ``2**K`` (the plain mean bias over nodes when
+        every node has the same number of inputs).
+        """
+        return np.concatenate(self.tables).astype(np.uint8), 0
+
+    def boolean_functions(self):
+        """``[(inputs, table), ...]``, one per node: input indices (first input most significant
+        in the table) and the ``2**len(inputs)`` outputs. An optional capability read by
+        ``probe.measures.mean_sensitivity``; the arrays are copies.
+        """
+        return [(row.copy(), table.copy()) for row, table in zip(self.inputs, self.tables)]
+
     def reach(self, sites, steps):
         """The sites themselves and every node downstream of them by a path of 1..``steps`` edges."""
         readers = [[] for _ in range(self.n_sites)]
