@@ -20,8 +20,11 @@ ENTRY_POINT_GROUP = "cprobe.media"
 def _builtin():
     from media.boolnet import NetworkFileFamily, RandomNetworkFamily
     from media.eca import ElementaryFamily
+    from media.ruletable import RuleTableFamily
+    from media.totalistic import TotalisticFamily
 
-    families = [ElementaryFamily(), NetworkFileFamily(), RandomNetworkFamily()]
+    families = [ElementaryFamily(), NetworkFileFamily(), RandomNetworkFamily(), TotalisticFamily(),
+                RuleTableFamily()]
     return {family.name: family for family in families}
 
 
