@@ -17,6 +17,7 @@ venv: $(STAMP)
 
 survey: $(STAMP)
 	$(VENV)/bin/cprobe survey configs/eca-survey.toml
+	$(VENV)/bin/cprobe report outputs/eca-survey
 
 test: $(STAMP)
 	$(VENV)/bin/python -m pytest

@@ -27,10 +27,19 @@ from media.registry import build as build_medium
 from probe.config import SurveyConfig, load_config, parse_config_text
 from probe.evaluate import DEFAULT_MAX_RUNS, MeaningTable, evaluate, light_cone_report
 from probe.layout import Layout
-from probe.survey import plan_survey, run_survey
+from probe.compare import DEFAULT_RESAMPLES, compare
+from probe.report import write_report
+from probe.survey import add_measures, plan_survey, run_survey
 from probe.tally import Tallies, tally, tally_meanings
 from probe.witness import CodeWitness, draw_witness, find_witness
 
+
+
+def available_measures() -> dict:
+    """Every registered measure by name (see :mod:`probe.measures`)."""
+    from probe.measures import MEASURES
+
+    return dict(MEASURES)
 
 
 def state_text(number: int, n_sites: int) -> str:
@@ -39,7 +48,8 @@ def state_text(number: int, n_sites: int) -> str:
 
 
 __all__ = [
-    "Attractor", "attractor_from", "attractors", "state_text",
+    "Attractor", "attractor_from", "attractors", "state_text", "available_measures", "add_measures", "compare",
+    "write_report", "DEFAULT_RESAMPLES",
     "CodeWitness", "DEFAULT_MAX_RUNS", "Layout", "MeaningTable", "REQUIRED", "SurveyConfig", "Tallies",
     "available_media", "build_medium", "draw_witness", "evaluate", "find_witness", "light_cone_report",
     "load_config", "parse_config_text", "plan_survey", "run_survey", "tally", "tally_meanings",

@@ -236,6 +236,57 @@ def attractors(network_file, nodes, inputs, bias, network_seed, as_json):
 
 
 @cli.command()
+@click.argument("run", type=click.Path(file_okay=False, path_type=Path))
+@click.option("--all-rows", is_flag=True, help="Correlate over every row instead of one per equivalence class.")
+@click.option("--resamples", type=click.IntRange(99, 99999), default=api.DEFAULT_RESAMPLES, show_default=True,
+              help="Bootstrap and permutation resamples.")
+def report(run, all_rows, resamples):
+    """Write report.md for a run folder: tables, figures and what the numbers show.
+
+    \b
+    Example:
+      cprobe report outputs/eca-survey
+    """
+    path = api.write_report(run, n_resamples=resamples, use_all_rows=all_rows)
+    click.echo(f"report: {path}")
+
+
+@cli.command()
+@click.argument("run", type=click.Path(file_okay=False, path_type=Path))
+@click.option("--add", "names", required=True, help="Measures to add, comma separated (`cprobe measures` lists them).")
+@click.option("--set", "overrides", multiple=True, metavar="KEY=VALUE",
+              help="Medium parameter for these measures, e.g. width=128; repeatable.")
+def measure(run, names, overrides):
+    """Add measure columns (m_...) to an existing run folder, then rewrite its report with `cprobe report`.
+
+    \b
+    Example:
+      cprobe measure outputs/eca-survey --add langton_lambda,lz76_complexity --set width=128
+    """
+    medium = {}
+    for item in overrides:
+        key, equals, value = item.partition("=")
+        if not equals or not key:
+            raise click.BadParameter(f"{item!r} is not KEY=VALUE", param_hint="--set")
+        medium[key.strip()] = _value(value.strip())
+    chosen = [name.strip() for name in names.split(",") if name.strip()]
+    api.add_measures(run, chosen, medium=medium, echo=lambda line: click.echo(line))
+
+
+@cli.command(name="measures")
+def list_measures():
+    """List the complexity measures, their result columns and what they need.
+
+    \b
+    Example:
+      cprobe measures
+    """
+    for name, spec in api.available_measures().items():
+        needs = f" (needs {', '.join(spec.requires)})" if spec.requires else ""
+        click.echo(f"{name:<22} {spec.column:<26} {spec.summary}{needs}")
+
+
+@cli.command()
 def media():
     """List the media that can be probed, with their parameters.
 

@@ -5,6 +5,7 @@ A configuration has three kinds of table::
     [survey]            # name (run folder name), seed, max_runs
     [medium]            # kind = "eca", plus the family's survey keys (rules, width, ...)
     [[layout]]          # one or more; keys as in probe.layout.Layout
+    [measures]          # optional: names = [...], medium = {overrides}, medium_by_measure = {name = {...}}
 
 Unknown keys are refused with the nearest valid key named. The config hash
 (``config_hash``) is the SHA-256 of the canonical JSON of the parsed
@@ -29,7 +30,8 @@ from probe.errors import ConfigError
 from probe.evaluate import DEFAULT_MAX_RUNS
 from probe.layout import Layout
 
-SECTIONS = ("survey", "medium", "layout")
+SECTIONS = ("survey", "medium", "layout", "measures")
+MEASURE_KEYS = ("names", "medium", "medium_by_measure")
 SURVEY_KEYS = ("name", "seed", "max_runs")
 
 
@@ -54,6 +56,7 @@ class SurveyConfig:
     layouts: list
     seed: int = 0
     max_runs: int = DEFAULT_MAX_RUNS
+    measures: dict = field(default_factory=dict)
     source_text: str | None = field(default=None, compare=False)
     base_dir: Path | None = field(default=None, compare=False)
 
@@ -102,8 +105,20 @@ class SurveyConfig:
         repeated = sorted({n for n in names if names.count(n) > 1})
         if repeated:
             raise ConfigError(f"[[layout]] name: {repeated[0]!r} is used twice; each layout needs its own name")
+        measures = data.get("measures", {})
+        if not isinstance(measures, dict):
+            raise ConfigError("config: [measures] must be a table with names = [...]")
+        for key in measures:
+            if key not in MEASURE_KEYS:
+                raise ConfigError(unknown_key_message("[measures]", key, MEASURE_KEYS))
+        names = measures.get("names", [])
+        if not isinstance(names, list) or not all(isinstance(item, str) for item in names):
+            raise ConfigError(f"[measures] names: {names!r} must be a list of measure names (`cprobe measures` lists them)")
+        for key in ("medium", "medium_by_measure"):
+            if not isinstance(measures.get(key, {}), dict):
+                raise ConfigError(f"[measures] {key}: must be a table of medium parameters")
         return cls(name=name, medium_kind=kind, medium=medium, layouts=layouts, seed=seed, max_runs=max_runs,
-                   source_text=source_text)
+                   measures=dict(measures), source_text=source_text)
 
     def to_dict(self) -> dict:
         """The canonical plain form (the inverse of :meth:`from_dict`)."""
@@ -111,6 +126,7 @@ class SurveyConfig:
             "survey": {"name": self.name, "seed": self.seed, "max_runs": self.max_runs},
             "medium": {"kind": self.medium_kind, **self.medium},
             "layout": [layout.to_dict() for layout in self.layouts],
+            **({"measures": self.measures} if self.measures else {}),
         }
 
     @property
@@ -143,7 +159,7 @@ def load_config(path) -> SurveyConfig:
 
 
 def dumps_toml(data: dict) -> str:
-    """Write the plain form of a configuration as TOML (tables, arrays of tables, scalars, lists)."""
+    """Write the plain form of a configuration as TOML (tables, arrays of tables, scalars, lists, inline tables)."""
     lines = []
     for section, body in data.items():
         tables = body if isinstance(body, list) else [body]
@@ -165,4 +181,6 @@ def _toml_value(value) -> str:
         return json.dumps(value, ensure_ascii=False).replace("\x7f", "\\u007f")
     if isinstance(value, (list, tuple)):
         return "[" + ", ".join(_toml_value(item) for item in value) + "]"
+    if isinstance(value, dict):
+        return "{ " + ", ".join(f"{json.dumps(str(k))} = {_toml_value(v)}" for k, v in value.items()) + " }"
     raise ConfigError(f"config: cannot write {value!r} as TOML")

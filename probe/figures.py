@@ -141,3 +141,132 @@ def plot_witness(diagrams, path, *, sites: dict, window, labels, site_names=None
     fig.savefig(path, dpi=110)
     plt.close(fig)
     return path
+
+
+def _class_colour_map(rows, family):
+    class_column = getattr(family, "class_column", None)
+    colours = _category_styles([row.get(class_column) for row in rows], PALETTE) if class_column else {}
+    return class_column, colours
+
+
+def _label_key(family):
+    return getattr(family, "axis_key", None)
+
+
+def plot_capacity_vs_measures(rows: list, path, *, measures: list, family=None, layout: str = "",
+                              tally: str = "code_instances") -> Path:
+    """Semantic capacity against each measure: one panel per measure, points labelled and coloured by class."""
+    path = Path(path)
+    class_column, colours = _class_colour_map(rows, family)
+    label_key = _label_key(family)
+    columns = min(3, max(1, len(measures)))
+    lines = (len(measures) + columns - 1) // columns
+    fig, axes = plt.subplots(lines, columns, figsize=(5.2 * columns, 4.0 * lines), squeeze=False)
+    for ax, measure in zip(axes.flat, measures):
+        points = [row for row in rows if _finite(row.get(measure)) and _finite(row.get(tally))]
+        for row in points:
+            ax.scatter(row[measure], row[tally], s=20, color=colours.get(row.get(class_column), PALETTE[0]),
+                       edgecolor="black", linewidth=0.3, zorder=3)
+            if label_key:
+                ax.annotate(str(row[label_key]), (row[measure], row[tally]), fontsize=5.5, alpha=0.75,
+                            xytext=(2, 2), textcoords="offset points")
+        ax.set_yscale("symlog", linthresh=1.0)
+        ax.set_xlabel(measure)
+        ax.set_ylabel(tally.replace("_", " "))
+        ax.grid(alpha=0.3)
+    for ax in list(axes.flat)[len(measures):]:
+        ax.axis("off")
+    handles = [plt.Line2D([], [], linestyle="", marker="o", color=colour, markeredgecolor="black",
+                          label=f"{class_column.replace('_', ' ')} {value}") for value, colour in colours.items()]
+    if handles:
+        fig.legend(handles=handles, loc="upper right", ncol=len(handles), fontsize=8, frameon=False)
+    fig.suptitle(f"{tally.replace('_', ' ')} against each measure, layout {layout!r}", x=0.01, ha="left")
+    fig.tight_layout(rect=(0, 0, 1, 0.95))
+    fig.savefig(path, dpi=100)
+    plt.close(fig)
+    return path
+
+
+def plot_capacity_by_class(rows: list, path, *, family=None, layouts=None, tally: str = "code_instances") -> Path:
+    """Box plots of semantic capacity per published class, one panel per layout."""
+    path = Path(path)
+    class_column, colours = _class_colour_map(rows, family)
+    layouts = layouts or list(dict.fromkeys(row["layout"] for row in rows))
+    fig, axes = plt.subplots(1, len(layouts), figsize=(4.5 * len(layouts) + 1, 4.2), squeeze=False)
+    classes = list(colours)
+    for ax, layout in zip(axes[0], layouts):
+        groups = [[row[tally] for row in rows if row["layout"] == layout and row.get(class_column) == value]
+                  for value in classes]
+        values = [np.log10(1 + np.asarray(group, dtype=float)) for group in groups]
+        parts = ax.boxplot(values, patch_artist=True, showfliers=True)
+        for patch, value in zip(parts["boxes"], classes):
+            patch.set_facecolor(colours[value])
+            patch.set_alpha(0.7)
+        for i, group in enumerate(values, start=1):
+            jitter = np.random.default_rng(i).uniform(-0.12, 0.12, size=len(group))
+            ax.scatter(i + jitter, group, s=8, color="black", alpha=0.5, zorder=3)
+        ax.set_xticks(range(1, len(classes) + 1))
+        ax.set_xticklabels([f"{value}\n(n={len(group)})" for value, group in zip(classes, groups)], fontsize=8)
+        ax.set_title(f"layout {layout!r}", fontsize=10)
+        ax.set_ylabel(f"log10(1 + {tally})")
+        ax.set_xlabel(class_column.replace("_", " ") if class_column else "")
+        ax.grid(axis="y", alpha=0.3)
+    fig.tight_layout()
+    fig.savefig(path, dpi=100)
+    plt.close(fig)
+    return path
+
+
+def plot_tally_heatmap(rows: list, path, *, family=None, layouts=None,
+                       tallies=("code_instances", "codes", "coding_fraction", "distinct_mappings",
+                                "undefined_fraction", "co_information_bits")) -> Path:
+    """Heatmap of each tally (columns) under each layout (column blocks) for every instance (rows).
+
+    Each tally is scaled from its minimum (0) to its maximum (1) across all
+    instances and layouts so that columns with different units share one
+    colour scale; counts are scaled on ``log10(1 + value)``.
+    """
+    path = Path(path)
+    layouts = layouts or list(dict.fromkeys(row["layout"] for row in rows))
+    label_key = _label_key(family)
+    # Survey rows come instance by instance, so the k-th row of every layout is the same instance.
+    by_layout = [[row for row in rows if row["layout"] == layout] for layout in layouts]
+    n_instances = min(len(group) for group in by_layout)
+    matrix = np.full((n_instances, len(tallies) * len(layouts)), np.nan)
+    for block, group in enumerate(by_layout):
+        for i, row in enumerate(group[:n_instances]):
+            for j, tally in enumerate(tallies):
+                matrix[i, block * len(tallies) + j] = float(row[tally])
+    for j in range(len(tallies)):
+        columns = [layout * len(tallies) + j for layout in range(len(layouts))]
+        block = matrix[:, columns]
+        if tallies[j] in ("code_instances", "codes", "distinct_mappings", "coding_contexts"):
+            block = np.log10(1 + block)
+        low, high = np.nanmin(block), np.nanmax(block)
+        matrix[:, columns] = (block - low) / (high - low) if high > low else 0.0
+    height = min(40.0, 2.5 + 0.09 * n_instances)
+    fig, ax = plt.subplots(figsize=(1.2 + 0.5 * matrix.shape[1], height))
+    image = ax.imshow(matrix, aspect="auto", cmap="viridis", interpolation="nearest")
+    ax.set_xticks(range(matrix.shape[1]))
+    ax.set_xticklabels([f"{layout}: {tally}" for layout in layouts for tally in tallies], rotation=90, fontsize=7)
+    if label_key:
+        labels = [row.get(label_key, i) for i, row in enumerate(by_layout[0][:n_instances])]
+        step = max(1, len(labels) // 60)
+        ax.set_yticks(range(0, len(labels), step))
+        ax.set_yticklabels([str(labels[i]) for i in range(0, len(labels), step)], fontsize=6)
+        ax.set_ylabel(label_key)
+    for boundary in range(1, len(layouts)):
+        ax.axvline(boundary * len(tallies) - 0.5, color="white", linewidth=2)
+    fig.colorbar(image, ax=ax, fraction=0.04, label="scaled within each tally (0 = lowest, 1 = highest)")
+    ax.set_title("tallies across layouts", fontsize=10)
+    fig.tight_layout()
+    fig.savefig(path, dpi=100)
+    plt.close(fig)
+    return path
+
+
+def _finite(value) -> bool:
+    try:
+        return np.isfinite(float(value))
+    except (TypeError, ValueError):
+        return False

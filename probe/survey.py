@@ -47,6 +47,11 @@ class Plan:
     family: object
     tasks: list
     warnings: list = field(default_factory=list)
+    measurer: object = None
+
+    @property
+    def instances(self) -> list:
+        return list({tuple(sorted(task.params.items())): task.params for task in self.tasks}.values())
 
     @property
     def runs(self) -> int:
@@ -85,7 +90,14 @@ def plan_survey(config: SurveyConfig) -> Plan:
                 label = family.instance_label(params)
                 warnings.extend(f"{label}: {line}" for line in light_cone_report(medium, resolved))
             tasks.append(Task(params=params, medium=medium, resolved=resolved))
-    return Plan(config=config, family=family, tasks=tasks, warnings=warnings)
+    measurer = None
+    if config.measures.get("names"):
+        from probe.measuring import InstanceMeasurer
+
+        measurer = InstanceMeasurer(config.medium_kind, config.measures, config.seed)
+        if tasks:
+            measurer(tasks[0].params)  # refuses a measure the medium cannot provide before anything runs
+    return Plan(config=config, family=family, tasks=tasks, warnings=warnings, measurer=measurer)
 
 
 def resolve_paths(family, config: SurveyConfig) -> dict:
@@ -117,13 +129,14 @@ def _display_path(path: Path) -> str:
 def result_columns(plan: Plan) -> list:
     params = list(plan.tasks[0].params) if plan.tasks else []
     notes = list(plan.family.annotate(plan.tasks[0].params)) if plan.tasks else []
-    return ["medium", *params, *notes, "layout", "seed", *COLUMNS, "runs", "seconds"]
+    measures = plan.measurer.columns if plan.measurer is not None else []
+    return ["medium", *params, *notes, "layout", "seed", *COLUMNS, *measures, "runs", "seconds"]
 
 
 def run_plan(plan: Plan, *, progress: bool = True) -> tuple:
     """Evaluate and tally every task; return the rows and the time spent on each part."""
     rows = []
-    timings = {"evaluate": 0.0, "tally": 0.0}
+    timings = {"evaluate": 0.0, "tally": 0.0, "measure": 0.0}
     show = progress and sys.stderr.isatty()
     bar = tqdm(total=len(plan.tasks), unit="task", disable=not show, desc=plan.config.name, leave=False)
     for task in plan.tasks:
@@ -132,11 +145,13 @@ def run_plan(plan: Plan, *, progress: bool = True) -> tuple:
         evaluated = time.perf_counter()
         tallies = tally_table(table)
         tallied = time.perf_counter()
+        measured = plan.measurer(task.params) if plan.measurer is not None else {}
         timings["evaluate"] += evaluated - started
         timings["tally"] += tallied - evaluated
+        timings["measure"] += time.perf_counter() - tallied
         rows.append({
             "medium": plan.config.medium_kind, **task.params, **plan.family.annotate(task.params),
-            "layout": task.resolved.layout.name, "seed": plan.config.seed, **tallies.as_dict(),
+            "layout": task.resolved.layout.name, "seed": plan.config.seed, **tallies.as_dict(), **measured,
             "runs": task.resolved.runs, "seconds": round(tallied - started, 6),
         })
         bar.update(1)
@@ -200,7 +215,49 @@ def run_survey(config, out=None, *, progress: bool = True, figure: bool = True, 
     timings["write"] = time.perf_counter() - write_started
     timings["total"] = time.perf_counter() - started
     timings = {key: round(value, 4) for key, value in timings.items()}
-    manifest = runfolder.manifest(config, timings, len(plan.tasks), {"status": "complete", "plan": plan.describe()})
+    manifest = runfolder.manifest(config, timings, len(plan.tasks), {
+        "status": "complete", "plan": plan.describe(), "layouts": [layout.name for layout in config.layouts],
+        "instances": plan.instances})
     runfolder.write_atomic(folder / runfolder.MANIFEST, json.dumps(manifest, indent=2) + "\n")
     echo(f"done: {len(plan.tasks)} tasks in {timings['total']:.1f} s -> {folder}")
     return SurveyResult(rows=rows, folder=folder, figure=figure_path, timings=timings)
+
+
+def add_measures(folder, names: list, *, medium: dict | None = None, echo=None) -> Path:
+    """Compute measures for every instance of an existing run and add their ``m_`` columns to ``results.csv``.
+
+    The run's own seed is used. ``medium`` overrides instance parameters for
+    these measures (e.g. ``{"width": 128}``). The manifest records what was
+    added; the config and its hash stay as run.
+    """
+    from probe.measuring import InstanceMeasurer
+
+    echo = echo or (lambda line: None)
+    folder = Path(folder)
+    manifest_path = folder / runfolder.MANIFEST
+    if not manifest_path.exists() or not (folder / runfolder.RESULTS).exists():
+        raise runfolder.RunFolderConflict(f"run folder: {folder} has no finished run; run `cprobe survey` first")
+    manifest = json.loads(manifest_path.read_text())
+    if manifest.get("status") != "complete" or "instances" not in manifest:
+        raise runfolder.RunFolderConflict(f"run folder: {folder} holds no complete run with its instances listed; "
+                                          f"rerun the survey into it first")
+    rows = runfolder.read_results(folder)
+    layouts = manifest["layouts"]
+    instances = manifest["instances"]
+    if len(rows) != len(instances) * len(layouts):
+        raise runfolder.RunFolderConflict(f"run folder: {folder}: results.csv has {len(rows)} rows, the manifest "
+                                          f"lists {len(instances)} instances x {len(layouts)} layouts")
+    measurer = InstanceMeasurer(manifest["medium"], {"names": list(names), "medium": dict(medium or {})},
+                                manifest.get("seed", 0))
+    started = time.perf_counter()
+    for index, params in enumerate(instances):
+        values = measurer(params)
+        for row in rows[index * len(layouts):(index + 1) * len(layouts)]:
+            row.update(values)
+    columns = list(rows[0])
+    runfolder.write_atomic(folder / runfolder.RESULTS, runfolder.rows_to_csv(rows, columns))
+    manifest.setdefault("measures_added", []).append(
+        {"names": list(names), "medium": dict(medium or {}), "seconds": round(time.perf_counter() - started, 3)})
+    runfolder.write_atomic(manifest_path, json.dumps(manifest, indent=2) + "\n")
+    echo(f"added {', '.join(measurer.columns)} to {len(instances)} instances in {folder / runfolder.RESULTS}")
+    return folder / runfolder.RESULTS

@@ -49,6 +49,18 @@ class ElementaryFamily(MediumFamily):
     def instance_label(self, params):
         return f"rule {params['rule']}"
 
+    def dedupe(self, rows):
+        """One row per reflection/complement class (the class's smallest rule where present), with a note."""
+        chosen = {}
+        for row in rows:
+            key = representative(int(row["rule"]))
+            if key not in chosen or int(row["rule"]) == key:
+                chosen[key] = row
+        kept = [row for row in rows if any(row is pick for pick in chosen.values())]
+        note = (f"{len(kept)} rows, one per equivalence class under reflection and complement (the class's "
+                f"smallest rule), out of {len(rows)}, so that no class counts 2-8 times")
+        return kept, note
+
 
 __all__ = [
     "BOUNDARIES", "ElementaryCA", "ElementaryFamily", "complement", "equivalents", "li_packard_class",
