@@ -5,7 +5,7 @@ STAMP := $(VENV)/.installed
 export NUMBA_CACHE_DIR := $(CURDIR)/.numba-cache
 export MPLBACKEND := Agg
 
-.PHONY: survey test venv clean
+.PHONY: survey test bench venv clean
 
 $(STAMP): pyproject.toml
 	test -x $(VENV)/bin/python || $(PYTHON) -m venv $(VENV)
@@ -18,6 +18,9 @@ venv: $(STAMP)
 survey: $(STAMP)
 	$(VENV)/bin/cprobe survey configs/eca-survey.toml
 	$(VENV)/bin/cprobe report outputs/eca-survey
+
+bench: $(STAMP)
+	$(VENV)/bin/python benchmarks/probe_bench.py
 
 test: $(STAMP)
 	$(VENV)/bin/python -m pytest

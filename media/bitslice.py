@@ -9,20 +9,36 @@ performance design in DEVELOPERS.md). Bit ``j`` of word ``w`` is run
 
 import numpy as np
 
+from media.jit import kernel
+
 
 def words_for(batch: int) -> int:
     """Number of 64-run words needed for ``batch`` runs."""
     return (batch + 63) // 64
 
 
-def pack(states: np.ndarray) -> np.ndarray:
-    """Pack ``(batch, sites)`` 0/1 uint8 states into ``(sites, words)`` uint64."""
+@kernel
+def _pack(states, words):
     batch, sites = states.shape
-    n_words = words_for(batch)
-    packed = np.packbits(states.T.astype(bool), axis=1, bitorder="little")
-    padded = np.zeros((sites, n_words * 8), dtype=np.uint8)
-    padded[:, : packed.shape[1]] = packed
-    return padded.view("<u8").astype(np.uint64, copy=False)
+    accumulator = np.zeros(sites, dtype=np.uint64)
+    for word in range(words.shape[1]):
+        accumulator[:] = 0
+        first = word * 64
+        for bit in range(min(64, batch - first)):
+            row = states[first + bit]
+            shift = np.uint64(bit)
+            for site in range(sites):
+                accumulator[site] |= np.uint64(row[site] != 0) << shift
+        for site in range(sites):
+            words[site, word] = accumulator[site]
+
+
+def pack(states: np.ndarray) -> np.ndarray:
+    """Pack ``(batch, sites)`` 0/1 uint8 states into ``(sites, words)`` uint64 (any non-zero counts as 1)."""
+    states = np.ascontiguousarray(states, dtype=np.uint8)
+    words = np.zeros((states.shape[1], words_for(states.shape[0])), dtype=np.uint64)
+    _pack(states, words)
+    return words
 
 
 def unpack(words: np.ndarray, batch: int) -> np.ndarray:

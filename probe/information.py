@@ -50,7 +50,7 @@ def _conditional_entropies(symbols, n_symbols):
     return joint, given_sign / n_signs, given_context / n_contexts
 
 
-def co_information_bits(meanings: np.ndarray) -> float:
+def co_information_bits(meanings: np.ndarray, renumbered=None) -> float:
     """``I(S;M) - I(S;M|C)`` in bits for a ``(contexts, signs)`` meaning table.
 
     Examples
@@ -59,11 +59,20 @@ def co_information_bits(meanings: np.ndarray) -> float:
 
     >>> co_information_bits(np.array([[0, 1], [1, 0]]))
     -1.0
+
+    ``renumbered`` is ``(dense, K)`` from ``probe.tally.dense_meanings`` when
+    the caller has it: defined meanings ``0..K-1`` and -1 for undefined.
     """
     meanings = np.asarray(meanings, dtype=np.int64)
     if meanings.size == 0:
         return 0.0
-    _, symbols = np.unique(meanings, return_inverse=True)
-    symbols = symbols.reshape(meanings.shape).astype(np.int64)
-    joint, given_sign, given_context = _conditional_entropies(symbols, int(symbols.max()) + 1)
+    if renumbered is not None:
+        dense, n_meanings = renumbered
+        symbols = np.asarray(dense, dtype=np.int64) + 1  # undefined becomes symbol 0
+        n_symbols = n_meanings + 1
+    else:
+        _, symbols = np.unique(meanings, return_inverse=True)
+        symbols = symbols.reshape(meanings.shape).astype(np.int64)
+        n_symbols = int(symbols.max()) + 1
+    joint, given_sign, given_context = _conditional_entropies(symbols, n_symbols)
     return float(joint - given_sign - given_context)

@@ -124,8 +124,19 @@ def _order2_sorted(meanings, n_meanings):
 
 
 def dense_meanings(meanings: np.ndarray):
-    """Renumber defined meanings ``0..K-1`` (undefined stays -1); return the table and ``K``."""
+    """Renumber defined meanings ``0..K-1`` in increasing order (undefined stays -1); return the table and ``K``.
+
+    Meaning numbers below ``2^22`` (every readout of up to 22 binary sites)
+    are renumbered through a lookup table in linear time; others by sorting.
+    """
     meanings = np.asarray(meanings, dtype=np.int64)
+    if meanings.size and meanings.min() >= UNDEFINED and meanings.max() < 2**22:
+        present = np.zeros(int(meanings.max()) + 2, dtype=bool)  # slot 0 stands for undefined
+        present[meanings.ravel() + 1] = True
+        present[0] = False
+        numbers = np.cumsum(present, dtype=np.int64) - 1
+        numbers[0] = UNDEFINED
+        return numbers[meanings + 1], int(np.count_nonzero(present))
     values, inverse = np.unique(meanings, return_inverse=True)
     inverse = inverse.reshape(meanings.shape).astype(np.int64)
     if values.size and values[0] == UNDEFINED:
@@ -134,13 +145,14 @@ def dense_meanings(meanings: np.ndarray):
     return inverse, int(values.size)
 
 
-def order2_counts(meanings: np.ndarray, method: str = "auto"):
+def order2_counts(meanings: np.ndarray, method: str = "auto", renumbered=None):
     """``(code_instances, codes, coding_mask)`` of a ``(contexts, signs)`` meaning table.
 
     ``method`` is ``"dense"``, ``"sorted"`` or ``"auto"`` (dense up to
-    ``DENSE_LIMIT`` distinct meanings).
+    ``DENSE_LIMIT`` distinct meanings). ``renumbered`` is the result of
+    :func:`dense_meanings` when the caller already has it.
     """
-    dense, n_meanings = dense_meanings(meanings)
+    dense, n_meanings = renumbered if renumbered is not None else dense_meanings(meanings)
     if n_meanings < 2 or dense.shape[1] < 2:
         return 0, 0, np.zeros(dense.shape[0], dtype=bool)
     if method == "dense" or (method == "auto" and n_meanings <= DENSE_LIMIT):
@@ -150,7 +162,7 @@ def order2_counts(meanings: np.ndarray, method: str = "auto"):
     return int(instances), int(codes), coding
 
 
-def count_distinct_rows(meanings: np.ndarray) -> int:
+def count_distinct_rows(meanings: np.ndarray, renumbered=None) -> int:
     """Number of distinct rows (distinct mappings ``f_c``) of a meaning table.
 
     Rows become exact mixed-radix integers when they fit in 62 bits, which is
@@ -158,7 +170,7 @@ def count_distinct_rows(meanings: np.ndarray) -> int:
     """
     if meanings.shape[0] == 0:
         return 0
-    dense, n_meanings = dense_meanings(meanings)
+    dense, n_meanings = renumbered if renumbered is not None else dense_meanings(meanings)
     radix = n_meanings + 1  # +1 for undefined
     if meanings.shape[1] * np.log2(max(radix, 2)) <= 62:
         powers = radix ** np.arange(meanings.shape[1], dtype=np.int64)
@@ -178,7 +190,8 @@ def tally_meanings(meanings: np.ndarray, context_space: int | None = None) -> Ta
     """
     meanings = np.asarray(meanings, dtype=np.int64)
     n_contexts, n_signs = meanings.shape
-    instances, codes, coding = order2_counts(meanings)
+    renumbered = dense_meanings(meanings)
+    instances, codes, coding = order2_counts(meanings, renumbered=renumbered)
     coding_contexts = int(np.count_nonzero(coding))
     return Tallies(
         code_instances=instances,
@@ -187,9 +200,9 @@ def tally_meanings(meanings: np.ndarray, context_space: int | None = None) -> Ta
         coding_fraction=coding_contexts / n_contexts if n_contexts else 0.0,
         contexts=n_contexts,
         context_space=int(n_contexts if context_space is None else context_space),
-        distinct_mappings=count_distinct_rows(meanings),
+        distinct_mappings=count_distinct_rows(meanings, renumbered),
         undefined_fraction=float(np.mean(meanings == UNDEFINED)) if meanings.size else 0.0,
-        co_information_bits=co_information_bits(meanings),
+        co_information_bits=co_information_bits(meanings, renumbered),
         signs=n_signs,
     )
 

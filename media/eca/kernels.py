@@ -7,7 +7,9 @@ the same instructions serve every rule, and the word loop vectorises.
 
 import numpy as np
 
-from media.jit import kernel
+from numba import prange
+
+from media.jit import kernel, parallel_kernel
 
 ALL_ONES = np.uint64(0xFFFFFFFFFFFFFFFF)
 
@@ -54,11 +56,10 @@ def _step_words(current, nxt, masks, periodic, zero_row):
 
 
 @kernel
-def _evolve_words(words, steps, masks, periodic, clamp_sites, clamp_words, watch, watch_from, out):
-    n_sites, n_words = words.shape
-    current = words.copy()
+def _evolve_block(current, steps, masks, periodic, clamp_sites, clamp_words, watch, watch_from, out):
+    """Evolve one contiguous block of words through every step; ``current`` is overwritten."""
     nxt = np.empty_like(current)
-    zero_row = np.zeros(n_words, dtype=np.uint64)
+    zero_row = np.zeros(current.shape[1], dtype=np.uint64)
     if watch_from == 0:
         for j in range(watch.shape[0]):
             out[0, j, :] = current[watch[j]]
@@ -70,3 +71,39 @@ def _evolve_words(words, steps, masks, periodic, clamp_sites, clamp_words, watch
         if t >= watch_from:
             for j in range(watch.shape[0]):
                 out[t - watch_from, j, :] = current[watch[j]]
+
+
+@kernel
+def _evolve_words_serial(words, steps, masks, periodic, clamp_sites, clamp_words, watch, watch_from, out,
+                         block_words):
+    n_sites, n_words = words.shape
+    n_blocks = (n_words + block_words - 1) // block_words
+    for block in range(n_blocks):
+        start = block * block_words
+        stop = min(n_words, start + block_words)
+        current = np.ascontiguousarray(words[:, start:stop])
+        block_clamps = np.ascontiguousarray(clamp_words[:, start:stop])
+        block_out = np.empty((out.shape[0], out.shape[1], stop - start), dtype=np.uint64)
+        _evolve_block(current, steps, masks, periodic, clamp_sites, block_clamps, watch, watch_from, block_out)
+        out[:, :, start:stop] = block_out
+
+
+@parallel_kernel
+def _evolve_words(words, steps, masks, periodic, clamp_sites, clamp_words, watch, watch_from, out, block_words):
+    """Runs are independent, so blocks of words go through all steps on their own (one block per thread
+    at a time, each small enough to stay in cache)."""
+    n_sites, n_words = words.shape
+    n_blocks = (n_words + block_words - 1) // block_words
+    for block in prange(n_blocks):
+        start = block * block_words
+        stop = min(n_words, start + block_words)
+        current = np.ascontiguousarray(words[:, start:stop])
+        block_clamps = np.ascontiguousarray(clamp_words[:, start:stop])
+        block_out = np.empty((out.shape[0], out.shape[1], stop - start), dtype=np.uint64)
+        _evolve_block(current, steps, masks, periodic, clamp_sites, block_clamps, watch, watch_from, block_out)
+        out[:, :, start:stop] = block_out
+
+
+def block_words_for(n_sites: int) -> int:
+    """Words per block so that two state arrays of a block fit in about 256 KiB of cache."""
+    return int(max(4, min(1024, (256 * 1024) // (16 * max(1, n_sites)))))

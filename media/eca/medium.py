@@ -3,7 +3,7 @@
 import numpy as np
 
 from media import bitslice
-from media.eca.kernels import _evolve_words, rule_masks
+from media.eca.kernels import _evolve_words, _evolve_words_serial, block_words_for, rule_masks
 from media.eca.rules import check_rule, rule_table
 from media.errors import require
 from media.interface import Medium, check_evolve_arguments
@@ -52,6 +52,17 @@ class ElementaryCA(Medium):
             right[:, :-1] = states[:, 1:]
         return self._table[4 * left + 2 * states + right]
 
+    def transition_table(self):
+        """The rule table and the quiescent state: ``(outputs, 0)``.
+
+        ``outputs`` holds the 8 new states, indexed by ``4*left + 2*centre + right``
+        (Wolfram 1983); an optional capability read by ``probe.measures.langton_lambda``.
+
+        >>> ElementaryCA(rule=110).transition_table()[0].tolist()
+        [0, 1, 1, 1, 0, 1, 1, 0]
+        """
+        return self._table.copy(), 0
+
     def reach(self, sites, steps):
         mask = np.zeros(self.width, dtype=bool)
         positions = np.arange(self.width)
@@ -69,6 +80,9 @@ class ElementaryCA(Medium):
         words = bitslice.pack(initial)
         clamp_words = bitslice.pack(clamp_values) if clamp_sites.size else np.zeros((0, words.shape[1]), np.uint64)
         out = np.empty((steps - watch_from + 1, watch.size, words.shape[1]), dtype=np.uint64)
-        _evolve_words(words, steps, self._masks, self.boundary == "periodic",
-                      clamp_sites, clamp_words, watch, watch_from, out)
+        block = block_words_for(self.n_sites)
+        # Threads only pay off with several blocks; a survey's small batches run on one.
+        run = _evolve_words if words.shape[1] >= 4 * block else _evolve_words_serial
+        run(words, steps, self._masks, self.boundary == "periodic", clamp_sites, clamp_words, watch, watch_from,
+            out, block)
         return np.ascontiguousarray(bitslice.unpack(out, batch).transpose(2, 0, 1))
