@@ -18,6 +18,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from media.jit import kernel
 from probe.errors import EnumerationTooLarge
 from probe.layout import Layout, ResolvedLayout
 
@@ -59,15 +60,37 @@ def check_size(resolved: ResolvedLayout, max_runs: int) -> None:
             f"use fewer sign or context sites, or raise max_runs")
 
 
+def meaning_dtype(resolved: ResolvedLayout):
+    """The smallest signed integer type that holds every meaning number and -1, to keep big tables small."""
+    if resolved.layout.meanings == "one-hot":
+        largest = resolved.readout_sites.size * (resolved.n_states - 1)
+    else:
+        largest = resolved.n_states ** resolved.readout_sites.size
+    for dtype in (np.int8, np.int16, np.int32):
+        if largest < np.iinfo(dtype).max:
+            return dtype
+    return np.int64
+
+
 def initial_states(resolved: ResolvedLayout, start: int, stop: int, n_sites: int) -> np.ndarray:
     """Initial states for contexts ``start .. stop-1`` times every sign; run ``(c - start) * n_signs + s``."""
-    n_signs = resolved.n_signs
-    n_ctx = stop - start
-    states = np.empty((n_ctx * n_signs, n_sites), dtype=np.uint8)
-    states[:] = resolved.background
-    states[:, resolved.sign_sites] = np.tile(resolved.sign_patterns, (n_ctx, 1))
-    states[:, resolved.context_sites] = np.repeat(resolved.context_patterns(start, stop), n_signs, axis=0)
+    states = np.empty(((stop - start) * resolved.n_signs, n_sites), dtype=np.uint8)
+    _fill_initial_states(states, resolved.background, resolved.sign_sites, resolved.sign_patterns,
+                         resolved.context_sites, resolved.context_patterns(start, stop))
     return states
+
+
+@kernel
+def _fill_initial_states(states, background, sign_sites, sign_patterns, context_sites, context_patterns):
+    n_signs = sign_patterns.shape[0]
+    for c in range(context_patterns.shape[0]):
+        for s in range(n_signs):
+            row = states[c * n_signs + s]
+            row[:] = background
+            for j in range(sign_sites.shape[0]):
+                row[sign_sites[j]] = sign_patterns[s, j]
+            for j in range(context_sites.shape[0]):
+                row[context_sites[j]] = context_patterns[c, j]
 
 
 def read_meanings(window: np.ndarray, n_states: int, kind: str, persistent=None) -> np.ndarray:
@@ -128,7 +151,7 @@ def evaluate(medium, layout: Layout | ResolvedLayout, *, seed: int = 0, max_runs
 
     n_contexts = resolved.n_contexts
     per_chunk = max(1, CHUNK_CELLS // max(1, resolved.n_signs * medium.n_sites))
-    meanings = np.empty((n_contexts, resolved.n_signs), dtype=np.int64)
+    meanings = np.empty((n_contexts, resolved.n_signs), dtype=meaning_dtype(resolved))
     for start in range(0, n_contexts, per_chunk):
         stop = min(n_contexts, start + per_chunk)
         states = initial_states(resolved, start, stop, medium.n_sites)

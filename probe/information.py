@@ -26,27 +26,27 @@ def _entropy_bits(counts, total):
 
 
 @kernel
-def _conditional_entropies(symbols, n_symbols):
+def _conditional_entropies(symbols, n_symbols, offset):
     n_contexts, n_signs = symbols.shape
     counts = np.zeros(n_symbols, dtype=np.int64)
     for c in range(n_contexts):
         for s in range(n_signs):
-            counts[symbols[c, s]] += 1
+            counts[symbols[c, s] + offset] += 1
     joint = _entropy_bits(counts, n_contexts * n_signs)
     given_sign = 0.0
     for s in range(n_signs):
         counts[:] = 0
         for c in range(n_contexts):
-            counts[symbols[c, s]] += 1
+            counts[symbols[c, s] + offset] += 1
         given_sign += _entropy_bits(counts, n_contexts)
     counts[:] = 0
     given_context = 0.0
     for c in range(n_contexts):
         for s in range(n_signs):
-            counts[symbols[c, s]] += 1
+            counts[symbols[c, s] + offset] += 1
         given_context += _entropy_bits(counts, n_signs)
         for s in range(n_signs):
-            counts[symbols[c, s]] = 0
+            counts[symbols[c, s] + offset] = 0
     return joint, given_sign / n_signs, given_context / n_contexts
 
 
@@ -67,12 +67,13 @@ def co_information_bits(meanings: np.ndarray, renumbered=None) -> float:
     if meanings.size == 0:
         return 0.0
     if renumbered is not None:
-        dense, n_meanings = renumbered
-        symbols = np.asarray(dense, dtype=np.int64) + 1  # undefined becomes symbol 0
+        symbols, n_meanings = renumbered
+        offset = 1  # undefined (-1) becomes symbol 0
         n_symbols = n_meanings + 1
     else:
         _, symbols = np.unique(meanings, return_inverse=True)
         symbols = symbols.reshape(meanings.shape).astype(np.int64)
         n_symbols = int(symbols.max()) + 1
-    joint, given_sign, given_context = _conditional_entropies(symbols, n_symbols)
+        offset = 0
+    joint, given_sign, given_context = _conditional_entropies(symbols, n_symbols, offset)
     return float(joint - given_sign - given_context)

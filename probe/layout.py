@@ -255,6 +255,8 @@ def _pattern_values(pattern, field_name):
 def patterns_from_numbers(numbers: np.ndarray, k: int, n_sites: int) -> np.ndarray:
     """Pattern number -> ``(len(numbers), n_sites)`` digits in base ``k``, least significant first."""
     numbers = np.asarray(numbers, dtype=np.int64)
+    if k == 2:  # shifts instead of divisions: this runs for every chunk of every evaluation
+        return ((numbers[:, None] >> np.arange(n_sites, dtype=np.int64)[None, :]) & 1).astype(np.uint8)
     powers = k ** np.arange(n_sites, dtype=np.int64)
     return ((numbers[:, None] // powers[None, :]) % k).astype(np.uint8)
 

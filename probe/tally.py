@@ -20,13 +20,16 @@ from dataclasses import asdict, dataclass
 import numpy as np
 
 from media.jit import kernel
+from probe.estimate import estimate_from_sample
 from probe.information import co_information_bits
 from probe.evaluate import DEFAULT_MAX_RUNS, UNDEFINED, MeaningTable, evaluate
 
 DENSE_LIMIT = 1024  # distinct meanings up to which the K x K table is used
 
 COLUMNS = ("code_instances", "codes", "coding_contexts", "coding_fraction", "contexts", "context_space",
-           "distinct_mappings", "undefined_fraction", "co_information_bits", "signs")
+           "distinct_mappings", "undefined_fraction", "co_information_bits", "signs",
+           "code_instances_estimate", "code_instances_low", "code_instances_high",
+           "coding_fraction_low", "coding_fraction_high")
 
 
 @dataclass(frozen=True)
@@ -43,6 +46,11 @@ class Tallies:
     undefined_fraction: float
     co_information_bits: float
     signs: int
+    code_instances_estimate: float = 0.0
+    code_instances_low: float = 0.0
+    code_instances_high: float = 0.0
+    coding_fraction_low: float = 0.0
+    coding_fraction_high: float = 0.0
 
     def as_dict(self) -> dict:
         return asdict(self)
@@ -52,7 +60,7 @@ class Tallies:
 def _order2_dense(meanings, n_meanings):
     n_contexts, n_signs = meanings.shape
     counts = np.zeros((n_meanings, n_meanings), dtype=np.int64)
-    coding = np.zeros(n_contexts, dtype=np.bool_)
+    participation = np.zeros(n_contexts, dtype=np.int64)
     instances = 0
     codes = 0
     for s1 in range(n_signs):
@@ -65,8 +73,8 @@ def _order2_dense(meanings, n_meanings):
             for c in range(n_contexts):
                 a = meanings[c, s1]
                 b = meanings[c, s2]
-                if a >= 0 and b >= 0 and a != b and counts[b, a] > 0:
-                    coding[c] = True
+                if a >= 0 and b >= 0 and a != b:
+                    participation[c] += counts[b, a]
             # Add each meaning pair once, at its first context, and clear the table for the next sign pair.
             for c in range(n_contexts):
                 a = meanings[c, s1]
@@ -78,7 +86,7 @@ def _order2_dense(meanings, n_meanings):
                         codes += 1
                     counts[a, b] = 0
                     counts[b, a] = 0
-    return instances, codes, coding
+    return instances, codes, participation
 
 
 @kernel
@@ -86,7 +94,7 @@ def _order2_sorted(meanings, n_meanings):
     n_contexts, n_signs = meanings.shape
     keys = np.empty(n_contexts, dtype=np.int64)
     where = np.empty(n_contexts, dtype=np.int64)
-    coding = np.zeros(n_contexts, dtype=np.bool_)
+    participation = np.zeros(n_contexts, dtype=np.int64)
     instances = 0
     codes = 0
     for s1 in range(n_signs):
@@ -118,9 +126,9 @@ def _order2_sorted(meanings, n_meanings):
                     instances += forward * backward
                     codes += 1
                     for q in range(i, j):
-                        coding[where[order[q]]] = True
+                        participation[where[order[q]]] += forward if keys[order[q]] & 1 else backward
                 i = j
-    return instances, codes, coding
+    return instances, codes, participation
 
 
 def dense_meanings(meanings: np.ndarray):
@@ -129,14 +137,20 @@ def dense_meanings(meanings: np.ndarray):
     Meaning numbers below ``2^22`` (every readout of up to 22 binary sites)
     are renumbered through a lookup table in linear time; others by sorting.
     """
-    meanings = np.asarray(meanings, dtype=np.int64)
+    meanings = np.asarray(meanings)
+    if not np.issubdtype(meanings.dtype, np.integer):
+        meanings = meanings.astype(np.int64)
     if meanings.size and meanings.min() >= UNDEFINED and meanings.max() < 2**22:
         present = np.zeros(int(meanings.max()) + 2, dtype=bool)  # slot 0 stands for undefined
-        present[meanings.ravel() + 1] = True
+        shifted = meanings.astype(np.int32, copy=False) + 1
+        present[shifted.ravel()] = True
         present[0] = False
-        numbers = np.cumsum(present, dtype=np.int64) - 1
+        n_meanings = int(np.count_nonzero(present))
+        small = np.int16 if n_meanings < 2**15 - 1 else np.int32  # a big table stays small
+        numbers = (np.cumsum(present, dtype=np.int64) - 1).astype(small)
         numbers[0] = UNDEFINED
-        return numbers[meanings + 1], int(np.count_nonzero(present))
+        return numbers[shifted], n_meanings
+    meanings = meanings.astype(np.int64, copy=False)
     values, inverse = np.unique(meanings, return_inverse=True)
     inverse = inverse.reshape(meanings.shape).astype(np.int64)
     if values.size and values[0] == UNDEFINED:
@@ -145,8 +159,9 @@ def dense_meanings(meanings: np.ndarray):
     return inverse, int(values.size)
 
 
-def order2_counts(meanings: np.ndarray, method: str = "auto", renumbered=None):
-    """``(code_instances, codes, coding_mask)`` of a ``(contexts, signs)`` meaning table.
+def order2_participation(meanings: np.ndarray, method: str = "auto", renumbered=None):
+    """``(code_instances, codes, participation)``: ``participation[c]`` is the number of code
+    instances context ``c`` takes part in (summed over sign pairs).
 
     ``method`` is ``"dense"``, ``"sorted"`` or ``"auto"`` (dense up to
     ``DENSE_LIMIT`` distinct meanings). ``renumbered`` is the result of
@@ -154,12 +169,18 @@ def order2_counts(meanings: np.ndarray, method: str = "auto", renumbered=None):
     """
     dense, n_meanings = renumbered if renumbered is not None else dense_meanings(meanings)
     if n_meanings < 2 or dense.shape[1] < 2:
-        return 0, 0, np.zeros(dense.shape[0], dtype=bool)
+        return 0, 0, np.zeros(dense.shape[0], dtype=np.int64)
     if method == "dense" or (method == "auto" and n_meanings <= DENSE_LIMIT):
-        instances, codes, coding = _order2_dense(dense, n_meanings)
+        instances, codes, participation = _order2_dense(dense, n_meanings)
     else:
-        instances, codes, coding = _order2_sorted(dense, n_meanings)
-    return int(instances), int(codes), coding
+        instances, codes, participation = _order2_sorted(dense, n_meanings)
+    return int(instances), int(codes), participation
+
+
+def order2_counts(meanings: np.ndarray, method: str = "auto", renumbered=None):
+    """``(code_instances, codes, coding_mask)`` of a ``(contexts, signs)`` meaning table."""
+    instances, codes, participation = order2_participation(meanings, method, renumbered)
+    return instances, codes, participation > 0
 
 
 def count_distinct_rows(meanings: np.ndarray, renumbered=None) -> int:
@@ -173,8 +194,12 @@ def count_distinct_rows(meanings: np.ndarray, renumbered=None) -> int:
     dense, n_meanings = renumbered if renumbered is not None else dense_meanings(meanings)
     radix = n_meanings + 1  # +1 for undefined
     if meanings.shape[1] * np.log2(max(radix, 2)) <= 62:
-        powers = radix ** np.arange(meanings.shape[1], dtype=np.int64)
-        return int(np.unique((dense + 1) @ powers).size)
+        keys = np.zeros(meanings.shape[0], dtype=np.int64)
+        for column in range(meanings.shape[1] - 1, -1, -1):  # one column at a time keeps memory at one key array
+            keys *= radix
+            keys += dense[:, column]
+            keys += 1
+        return int(np.unique(keys).size)
     return int(np.unique(meanings, axis=0).shape[0])
 
 
@@ -191,19 +216,22 @@ def tally_meanings(meanings: np.ndarray, context_space: int | None = None) -> Ta
     meanings = np.asarray(meanings, dtype=np.int64)
     n_contexts, n_signs = meanings.shape
     renumbered = dense_meanings(meanings)
-    instances, codes, coding = order2_counts(meanings, renumbered=renumbered)
-    coding_contexts = int(np.count_nonzero(coding))
+    instances, codes, participation = order2_participation(meanings, renumbered=renumbered)
+    coding_contexts = int(np.count_nonzero(participation))
+    space = int(n_contexts if context_space is None else context_space)
+    estimates = estimate_from_sample(instances, participation, n_contexts, space) if n_contexts else None
     return Tallies(
         code_instances=instances,
         codes=codes,
         coding_contexts=coding_contexts,
         coding_fraction=coding_contexts / n_contexts if n_contexts else 0.0,
         contexts=n_contexts,
-        context_space=int(n_contexts if context_space is None else context_space),
+        context_space=space,
         distinct_mappings=count_distinct_rows(meanings, renumbered),
         undefined_fraction=float(np.mean(meanings == UNDEFINED)) if meanings.size else 0.0,
         co_information_bits=co_information_bits(meanings, renumbered),
         signs=n_signs,
+        **(estimates.as_dict() if estimates is not None else {}),
     )
 
 
