@@ -1,4 +1,4 @@
-"""The Medium interface (version 1).
+"""The Medium interface (version 2; version 1 had no ``settle``).
 
 A *medium* is a deterministic system of ``n_sites`` sites, each in a state
 ``0 .. n_states-1``, with a one-step update ``x(t+1) = F(x(t))``. The probe

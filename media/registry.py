@@ -15,6 +15,7 @@ from media.family import unknown_key_message
 from media.interface import INTERFACE_VERSION
 
 ENTRY_POINT_GROUP = "cprobe.media"
+BROKEN = {}  # plugin name -> why it failed to load; asked for by name, it is refused with that reason
 
 
 def _builtin():
@@ -34,13 +35,19 @@ def available() -> dict:
     for point in entry_points(group=ENTRY_POINT_GROUP):
         if point.name in families:
             continue
-        families[point.name] = point.load()()
+        try:
+            families[point.name] = point.load()()
+        except Exception as error:  # a broken plugin must not take the other media down with it
+            BROKEN[point.name] = (f"medium plugin {point.name!r} ({point.value}) failed to load: "
+                                  f"{type(error).__name__}: {error}; fix or uninstall that package")
     return families
 
 
 def family(name: str):
     """The family registered as ``name``, or a one-line error listing what is available."""
     families = available()
+    if name in BROKEN and name not in families:
+        raise MediumInputError(BROKEN[name])
     if name not in families:
         raise MediumInputError(unknown_key_message("medium", name, families).replace("unknown key", "unknown medium"))
     return families[name]

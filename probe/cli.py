@@ -154,15 +154,28 @@ def tally(medium_kind, rule, width, boundary, network, extra_params, signs, cont
 @click.option("--out", type=click.Path(file_okay=False, path_type=Path), default=None,
               help="Run folder (default outputs/<survey name>).")
 @click.option("--quiet", is_flag=True, help="No progress bar and no status lines.")
-def survey(config, out, quiet):
+@click.option("--executor", type=click.Choice(["serial", "processes", "dask"]), default="serial", show_default=True,
+              help="Where tasks run: here, in local worker processes, or on a Dask cluster.")
+@click.option("--workers", type=click.IntRange(min=1), default=None,
+              help="Worker processes (processes, or a local Dask cluster); default: all cores.")
+@click.option("--scheduler", default=None, help="Address of a running Dask scheduler, e.g. tcp://10.0.0.5:8786.")
+def survey(config, out, quiet, executor, workers, scheduler):
     """Run a survey config into a run folder: results.csv, manifest.json, config.toml, capacity.png.
 
+    Rerunning the same config into the same folder resumes it: finished tasks
+    are kept in runs.sqlite and skipped.
+
     \b
-    Example:
+    Examples:
       cprobe survey configs/eca-survey.toml --out outputs/my-eca-run
+      cprobe survey configs/eca-survey.toml --executor processes --workers 2
+      cprobe survey configs/rbn-ensemble.toml --executor dask --scheduler tcp://127.0.0.1:8786
     """
+    if scheduler is not None and executor != "dask":
+        raise click.UsageError("--scheduler needs --executor dask")
     echo = (lambda line: None) if quiet else (lambda line: click.echo(line, err=True))
-    result = api.run_survey(config, out, progress=not quiet, echo=echo)
+    result = api.run_survey(config, out, progress=not quiet, echo=echo, executor=executor, workers=workers,
+                            address=scheduler)
     if not quiet:
         click.echo(f"results: {result.folder / 'results.csv'}")
         if result.figure:

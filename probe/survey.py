@@ -19,8 +19,10 @@ from tqdm import tqdm
 from media import registry
 from probe import runfolder
 from probe.config import SurveyConfig, dumps_toml, load_config
-from probe.evaluate import check_size, evaluate, light_cone_report
-from probe.tally import COLUMNS, tally_table
+from probe.executors import TaskSpec, run_tasks
+from probe.store import STORE, RunStore, check_store
+from probe.evaluate import check_size, light_cone_report
+from probe.tally import COLUMNS
 
 DEFAULT_OUTPUT_ROOT = Path("outputs")
 
@@ -130,36 +132,62 @@ def result_columns(plan: Plan) -> list:
     params = list(plan.tasks[0].params) if plan.tasks else []
     notes = list(plan.family.annotate(plan.tasks[0].params)) if plan.tasks else []
     measures = plan.measurer.columns if plan.measurer is not None else []
-    return ["medium", *params, *notes, "layout", "seed", *COLUMNS, *measures, "runs", "seconds"]
+    return ["medium", *params, *notes, "layout", "seed", *COLUMNS, *measures, "runs"]
 
 
-def run_plan(plan: Plan, *, progress: bool = True) -> tuple:
-    """Evaluate and tally every task; return the rows and the time spent on each part."""
-    rows = []
+def task_specs(plan: Plan) -> list:
+    """The picklable form of every task, numbered in plan order."""
+    config = plan.config
+    return [TaskSpec(index=index, kind=config.medium_kind, params=dict(task.params),
+                     layout=task.resolved.layout.to_dict(), seed=config.seed, max_runs=config.max_runs,
+                     measures=dict(config.measures))
+            for index, task in enumerate(plan.tasks)]
+
+
+def run_plan(plan: Plan, *, progress: bool = True, executor: str = "serial", workers: int | None = None,
+             address: str | None = None, store: RunStore | None = None) -> tuple:
+    """Run every task not yet in ``store``; return all rows in plan order and the time spent on each part."""
+    specs = task_specs(plan)
+    done = store.finished() if store is not None else set()
+    pending = [spec for spec in specs if spec.index not in done]
     timings = {"evaluate": 0.0, "tally": 0.0, "measure": 0.0}
     show = progress and sys.stderr.isatty()
-    bar = tqdm(total=len(plan.tasks), unit="task", disable=not show, desc=plan.config.name, leave=False)
-    for task in plan.tasks:
-        started = time.perf_counter()
-        table = evaluate(task.medium, task.resolved, seed=plan.config.seed, max_runs=plan.config.max_runs)
-        evaluated = time.perf_counter()
-        tallies = tally_table(table)
-        tallied = time.perf_counter()
-        measured = plan.measurer(task.params) if plan.measurer is not None else {}
-        timings["evaluate"] += evaluated - started
-        timings["tally"] += tallied - evaluated
-        timings["measure"] += time.perf_counter() - tallied
-        rows.append({
-            "medium": plan.config.medium_kind, **task.params, **plan.family.annotate(task.params),
-            "layout": task.resolved.layout.name, "seed": plan.config.seed, **tallies.as_dict(), **measured,
-            "runs": task.resolved.runs, "seconds": round(tallied - started, 6),
-        })
+    bar = tqdm(total=len(specs), initial=len(specs) - len(pending), unit="task", disable=not show,
+               desc=plan.config.name, leave=False, dynamic_ncols=True)
+    collected = {}
+    for index, row, spent in run_tasks(pending, executor=executor, workers=workers, address=address):
+        if store is not None:
+            store.add(index, row, spent)
+        collected[index] = row
+        for key in timings:
+            timings[key] += spent[key]
         bar.update(1)
     bar.close()
+    rows = store.rows() if store is not None else [collected[index] for index in sorted(collected)]
     return rows, timings
 
 
-def run_survey(config, out=None, *, progress: bool = True, figure: bool = True, echo=None) -> SurveyResult:
+def export_rows(folder: Path, rows: list, columns: list) -> list:
+    """Write ``results.csv`` (and ``results.parquet`` when pyarrow is installed) atomically; return the paths."""
+    written = [folder / runfolder.RESULTS]
+    runfolder.write_atomic(written[0], runfolder.rows_to_csv(rows, columns))
+    try:
+        import pyarrow
+        import pyarrow.parquet
+    except ImportError:
+        return written
+    import io
+
+    buffer = io.BytesIO()
+    table = pyarrow.Table.from_pylist([{key: row.get(key) for key in columns} for row in rows])
+    pyarrow.parquet.write_table(table, buffer)
+    written.append(folder / "results.parquet")
+    runfolder.write_atomic(written[-1], buffer.getvalue())
+    return written
+
+
+def run_survey(config, out=None, *, progress: bool = True, figure: bool = True, echo=None,
+               executor: str = "serial", workers: int | None = None, address: str | None = None) -> SurveyResult:
     """Run a survey into a run folder and draw its summary figure.
 
     Parameters
@@ -168,13 +196,18 @@ def run_survey(config, out=None, *, progress: bool = True, figure: bool = True, 
         A :class:`~probe.config.SurveyConfig`, or a path to a TOML file.
     out
         The run folder (default ``outputs/<survey name>``). A folder that
-        holds another config is refused and left untouched.
+        holds another config is refused and left untouched; one that holds
+        this config is resumed: finished tasks are kept and skipped.
     progress
         Show a progress bar on a terminal.
     figure
         Draw ``capacity.png``.
     echo
         Callable for status lines (default: silent).
+    executor, workers, address
+        Where tasks run: ``"serial"``, ``"processes"`` (``workers`` local
+        processes) or ``"dask"`` (a LocalCluster of ``workers``, or the
+        scheduler at ``address``). All give identical rows.
 
     Examples
     --------
@@ -192,34 +225,44 @@ def run_survey(config, out=None, *, progress: bool = True, figure: bool = True, 
     plan = plan_survey(config)
     folder = Path(out) if out is not None else DEFAULT_OUTPUT_ROOT / config.name
     runfolder.claim(folder, config.config_hash)
+    check_store(folder / STORE, config.config_hash)  # before anything is written into the folder
     config_text = config.source_text if config.source_text is not None else dumps_toml(config.to_dict())
     runfolder.write_atomic(folder / runfolder.CONFIG, config_text)
     # The manifest goes first, so an interrupted run still marks the folder as this config's.
+    layouts = [layout.name for layout in config.layouts]
+    extra = {"plan": plan.describe(), "layouts": layouts, "instances": plan.instances, "executor": executor}
     runfolder.write_atomic(folder / runfolder.MANIFEST, json.dumps(
-        runfolder.manifest(config, {}, len(plan.tasks), {"status": "running", "plan": plan.describe()}), indent=2))
-    echo(plan.describe())
-    for warning in plan.warnings:
-        echo(f"warning: {warning}")
-
-    started = time.perf_counter()
-    rows, timings = run_plan(plan, progress=progress)
+        runfolder.manifest(config, {}, len(plan.tasks), {"status": "running", **extra}), indent=2))
+    store = RunStore(folder / STORE, config.config_hash)
+    try:
+        resumed = len(store.finished())
+        echo(plan.describe())
+        if resumed:
+            echo(f"resuming: {resumed} of {len(plan.tasks)} tasks already done in {folder / STORE}")
+        for warning in plan.warnings:
+            echo(f"warning: {warning}")
+        started = time.perf_counter()
+        rows, timings = run_plan(plan, progress=progress, executor=executor, workers=workers, address=address,
+                                 store=store)
+    finally:
+        store.close()
 
     write_started = time.perf_counter()
-    runfolder.write_atomic(folder / runfolder.RESULTS, runfolder.rows_to_csv(rows, result_columns(plan)))
+    export_rows(folder, rows, result_columns(plan))
     figure_path = None
     if figure:
         from probe.figures import plot_capacity
 
-        figure_path = plot_capacity(rows, folder / "capacity.png", family=plan.family,
-                                    layouts=[layout.name for layout in config.layouts], title=config.name)
+        figure_path = plot_capacity(rows, folder / "capacity.png", family=plan.family, layouts=layouts,
+                                    title=config.name)
     timings["write"] = time.perf_counter() - write_started
     timings["total"] = time.perf_counter() - started
     timings = {key: round(value, 4) for key, value in timings.items()}
-    manifest = runfolder.manifest(config, timings, len(plan.tasks), {
-        "status": "complete", "plan": plan.describe(), "layouts": [layout.name for layout in config.layouts],
-        "instances": plan.instances})
+    manifest = runfolder.manifest(config, timings, len(plan.tasks), {"status": "complete", **extra,
+                                                                      "resumed_tasks": resumed})
     runfolder.write_atomic(folder / runfolder.MANIFEST, json.dumps(manifest, indent=2) + "\n")
-    echo(f"done: {len(plan.tasks)} tasks in {timings['total']:.1f} s -> {folder}")
+    echo(f"done: {len(plan.tasks)} tasks ({len(plan.tasks) - resumed} run now, {resumed} resumed) in "
+         f"{timings['total']:.1f} s with the {executor} executor -> {folder}")
     return SurveyResult(rows=rows, folder=folder, figure=figure_path, timings=timings)
 
 
@@ -255,7 +298,14 @@ def add_measures(folder, names: list, *, medium: dict | None = None, echo=None) 
         for row in rows[index * len(layouts):(index + 1) * len(layouts)]:
             row.update(values)
     columns = list(rows[0])
-    runfolder.write_atomic(folder / runfolder.RESULTS, runfolder.rows_to_csv(rows, columns))
+    if (folder / STORE).exists():  # keep the store in step, so a resumed rerun exports the new columns too
+        store = RunStore(folder / STORE, manifest["config_hash"])
+        try:
+            for index, row in enumerate(rows):
+                store.replace_row(index, row)
+        finally:
+            store.close()
+    export_rows(folder, rows, columns)
     manifest.setdefault("measures_added", []).append(
         {"names": list(names), "medium": dict(medium or {}), "seconds": round(time.perf_counter() - started, 3)})
     runfolder.write_atomic(manifest_path, json.dumps(manifest, indent=2) + "\n")
