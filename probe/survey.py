@@ -153,7 +153,7 @@ def run_plan(plan: Plan, *, progress: bool = True, executor: str = "serial", wor
     timings = {"evaluate": 0.0, "tally": 0.0, "measure": 0.0}
     show = progress and sys.stderr.isatty()
     bar = tqdm(total=len(specs), initial=len(specs) - len(pending), unit="task", disable=not show,
-               desc=plan.config.name, leave=False, dynamic_ncols=True)
+               desc=plan.config.name, leave=True, dynamic_ncols=True)
     collected = {}
     for index, row, spent in run_tasks(pending, executor=executor, workers=workers, address=address):
         if store is not None:
