@@ -121,6 +121,7 @@ def attractor_from(medium, state, max_steps: int = 100_000, clamp_sites=None, cl
     """``(transient length, cycle of state numbers)`` reached from one start state.
 
     ``clamp_sites`` (optional) are forced to ``clamp_values`` after every step, as in ``evolve``.
+    State numbers are exact Python integers, so media of any size are followed correctly.
     """
     current = np.asarray(state, dtype=np.uint8).reshape(1, -1)
     clamp_sites = np.zeros(0, dtype=np.int64) if clamp_sites is None else np.asarray(clamp_sites, dtype=np.int64)
@@ -128,7 +129,8 @@ def attractor_from(medium, state, max_steps: int = 100_000, clamp_sites=None, cl
     k = int(medium.n_states)
     seen = {}
     for t in range(max_steps + 1):
-        number = int(state_numbers(current, k)[0])
+        number = sum(int(value) * k**site for site, value in enumerate(current[0])) if current.shape[1] > 62 \
+            else int(state_numbers(current, k)[0])
         if number in seen:
             first = seen[number]
             order = sorted(seen, key=seen.get)

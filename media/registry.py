@@ -21,11 +21,12 @@ BROKEN = {}  # plugin name -> why it failed to load; asked for by name, it is re
 def _builtin():
     from media.boolnet import NetworkFileFamily, RandomNetworkFamily
     from media.eca import ElementaryFamily
+    from media.reactions import RandomReactionFamily, ReactionFileFamily
     from media.ruletable import RuleTableFamily
     from media.totalistic import TotalisticFamily
 
     families = [ElementaryFamily(), NetworkFileFamily(), RandomNetworkFamily(), TotalisticFamily(),
-                RuleTableFamily()]
+                RuleTableFamily(), ReactionFileFamily(), RandomReactionFamily()]
     return {family.name: family for family in families}
 
 

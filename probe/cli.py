@@ -87,6 +87,8 @@ def layout_options(command):
         click.option("--clamp-contexts", is_flag=True, help="Hold context sites at their pattern at every step."),
         click.option("--meanings", type=click.Choice(["pattern", "one-hot"]), default="pattern", show_default=True,
                      help="Every readout pattern is a meaning, or only patterns with one site on."),
+        click.option("--distinct-contexts", is_flag=True,
+                     help="Count contexts with the same closure once (closure media, --window attractor)."),
         click.option("--sample", "context_sample", type=int, default=None,
                      help="Evaluate a seeded sample of this many contexts instead of all."),
         click.option("--seed", type=int, default=0, show_default=True, help="Run seed (background, sampling)."),
@@ -110,12 +112,12 @@ def _build(medium_kind, rule, width, boundary, network, extra_params):
 
 
 def _layout(signs, contexts, readout, window, sign_patterns, steps, background, background_density, clamp_signs,
-            clamp_contexts, meanings, context_sample, name="cli"):
+            clamp_contexts, meanings, context_sample, distinct_contexts=False, name="cli"):
     patterns = None if sign_patterns is None else [item.strip() for item in sign_patterns.split(",")]
     return api.Layout(signs=signs, contexts=contexts, readout=readout, window=window, sign_patterns=patterns,
                       steps=steps, background=background, background_density=background_density,
                       clamp_signs=clamp_signs, clamp_contexts=clamp_contexts, meanings=meanings,
-                      context_sample=context_sample, name=name)
+                      context_sample=context_sample, distinct_contexts=distinct_contexts or None, name=name)
 
 
 @cli.command()
@@ -123,8 +125,8 @@ def _layout(signs, contexts, readout, window, sign_patterns, steps, background, 
 @layout_options
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object with the tally columns.")
 def tally(medium_kind, rule, width, boundary, network, extra_params, signs, contexts, readout, window, sign_patterns,
-          steps, background, background_density, clamp_signs, clamp_contexts, meanings, context_sample, seed,
-          max_runs, as_json):
+          steps, background, background_density, clamp_signs, clamp_contexts, meanings, distinct_contexts,
+          context_sample, seed, max_runs, as_json):
     """Tally one medium under one layout and print the columns.
 
     \b
@@ -134,7 +136,7 @@ def tally(medium_kind, rule, width, boundary, network, extra_params, signs, cont
     """
     medium = _build(medium_kind, rule, width, boundary, network, extra_params)
     layout = _layout(signs, contexts, readout, window, sign_patterns, steps, background, background_density,
-                     clamp_signs, clamp_contexts, meanings, context_sample)
+                     clamp_signs, clamp_contexts, meanings, context_sample, distinct_contexts)
     resolved = layout.resolve(medium, seed)
     for warning in api.light_cone_report(medium, resolved):
         click.echo(f"warning: {warning}", err=True)
@@ -189,7 +191,7 @@ def survey(config, out, quiet, executor, workers, scheduler):
               show_default=True, help="PNG file to write.")
 def witness(medium_kind, rule, width, boundary, network, extra_params, signs, contexts, readout, window,
             sign_patterns, steps, background, background_density, clamp_signs, clamp_contexts, meanings,
-            context_sample, seed, max_runs, out):
+            distinct_contexts, context_sample, seed, max_runs, out):
     """Find one code instance and draw its four runs (two signs x two contexts) as a PNG.
 
     \b
@@ -202,7 +204,7 @@ def witness(medium_kind, rule, width, boundary, network, extra_params, signs, co
     """
     medium = _build(medium_kind, rule, width, boundary, network, extra_params)
     layout = _layout(signs, contexts, readout, window, sign_patterns, steps, background, background_density,
-                     clamp_signs, clamp_contexts, meanings, context_sample)
+                     clamp_signs, clamp_contexts, meanings, context_sample, distinct_contexts)
     found, path = api.draw_witness(medium, layout, out, seed=seed, max_runs=max_runs)
     if found is None:
         click.echo("no code instance under this layout, so nothing was drawn; try another window, "

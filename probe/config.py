@@ -5,7 +5,8 @@ A configuration has three kinds of table::
     [survey]            # name (run folder name), seed, max_runs
     [medium]            # kind = "eca", plus the family's survey keys (rules, width, ...)
     [[layout]]          # one or more; keys as in probe.layout.Layout
-    [measures]          # optional: names = [...], medium = {overrides}, medium_by_measure = {name = {...}}
+    [measures]          # optional: names = [...], medium = {overrides}, medium_by_measure = {name = {...}},
+                        # options = {name = {option = value}}
 
 Unknown keys are refused with the nearest valid key named. The config hash
 (``config_hash``) is the SHA-256 of the canonical JSON of the parsed
@@ -31,7 +32,7 @@ from probe.evaluate import DEFAULT_MAX_RUNS
 from probe.layout import Layout
 
 SECTIONS = ("survey", "medium", "layout", "measures")
-MEASURE_KEYS = ("names", "medium", "medium_by_measure")
+MEASURE_KEYS = ("names", "medium", "medium_by_measure", "options")
 SURVEY_KEYS = ("name", "seed", "max_runs")
 
 
@@ -114,9 +115,9 @@ class SurveyConfig:
         names = measures.get("names", [])
         if not isinstance(names, list) or not all(isinstance(item, str) for item in names):
             raise ConfigError(f"[measures] names: {names!r} must be a list of measure names (`cprobe measures` lists them)")
-        for key in ("medium", "medium_by_measure"):
+        for key in ("medium", "medium_by_measure", "options"):
             if not isinstance(measures.get(key, {}), dict):
-                raise ConfigError(f"[measures] {key}: must be a table of medium parameters")
+                raise ConfigError(f"[measures] {key}: must be a table")
         return cls(name=name, medium_kind=kind, medium=medium, layouts=layouts, seed=seed, max_runs=max_runs,
                    measures=dict(measures), source_text=source_text)
 

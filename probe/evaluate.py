@@ -14,7 +14,7 @@ whatever the number of contexts.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -142,6 +142,8 @@ def evaluate(medium, layout: Layout | ResolvedLayout, *, seed: int = 0, max_runs
     resolved = layout if isinstance(layout, ResolvedLayout) else layout.resolve(medium, seed)
     check_size(resolved, max_runs)
     spec = resolved.layout
+    if spec.distinct_contexts:
+        resolved = distinct_contexts(medium, resolved)
     clamp = []
     if spec.clamp_signs:
         clamp.append(resolved.sign_sites)
@@ -168,6 +170,36 @@ def evaluate(medium, layout: Layout | ResolvedLayout, *, seed: int = 0, max_runs
         if progress is not None:
             progress((stop - start) * resolved.n_signs)
     return MeaningTable(meanings=meanings, resolved=resolved)
+
+
+def distinct_contexts(medium, resolved: ResolvedLayout) -> ResolvedLayout:
+    """``resolved`` with contexts of the same closure merged: the first of each group is kept.
+
+    Every context is run alone (sign sites absent, background elsewhere, contexts clamped if the
+    layout clamps them) to the state it settles to; contexts that reach the same full state form
+    one group. Under closure ``cl(c + s) = cl(cl(c) + s)``, so the merged contexts have the same
+    mapping for every sign (Dittrich & Speroni di Fenizio 2007). The merged set is the context set
+    now: ``context_space`` becomes the number of groups.
+    """
+    spec = resolved.layout
+    clamp_sites = resolved.context_sites if spec.clamp_contexts else np.zeros(0, dtype=np.int64)
+    every_site = np.arange(medium.n_sites)
+    per_chunk = max(1, CHUNK_CELLS // max(1, medium.n_sites))
+    seen, kept = set(), []
+    for start in range(0, resolved.n_contexts, per_chunk):
+        stop = min(resolved.n_contexts, start + per_chunk)
+        states = np.empty((stop - start, medium.n_sites), dtype=np.uint8)
+        states[:] = resolved.background
+        states[:, resolved.sign_sites] = 0
+        states[:, resolved.context_sites] = resolved.context_patterns(start, stop)
+        settled, _ = medium.settle(states, watch=every_site, max_steps=spec.run_steps, clamp_sites=clamp_sites,
+                                   clamp_values=states[:, clamp_sites])
+        for offset, key in enumerate(np.packbits(np.asarray(settled, dtype=np.uint8), axis=1)):
+            key = key.tobytes()
+            if key not in seen:
+                seen.add(key)
+                kept.append(resolved.context_number(start + offset))
+    return replace(resolved, context_numbers=np.asarray(kept, dtype=np.int64), context_space=len(kept))
 
 
 def light_cone_report(medium, resolved: ResolvedLayout) -> list:

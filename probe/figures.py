@@ -171,6 +171,9 @@ def plot_capacity_vs_measures(rows: list, path, *, measures: list, family=None, 
                 ax.annotate(str(row[label_key]), (row[measure], row[tally]), fontsize=5.5, alpha=0.75,
                             xytext=(2, 2), textcoords="offset points")
         ax.set_yscale("symlog", linthresh=1.0)
+        values = np.array([float(row[measure]) for row in points]) if points else np.zeros(1)
+        if values.min() >= 0 and values.max() > 100 * max(1.0, float(np.median(values))):
+            ax.set_xscale("symlog", linthresh=1.0)  # transient and cycle lengths span orders of magnitude
         ax.set_xlabel(measure)
         ax.set_ylabel(tally.replace("_", " "))
         ax.grid(alpha=0.3)
@@ -263,6 +266,51 @@ def plot_tally_heatmap(rows: list, path, *, family=None, layouts=None,
     fig.savefig(path, dpi=100)
     plt.close(fig)
     return path
+
+
+def plot_tally_against(rows, path, *, x, group=None, tallies=("code_instances", "undefined_fraction",
+                                                              "distinct_mappings"), layout=None, title=""):
+    """Tallies against a numeric result column ``x``, one line per value of ``group``, for one layout.
+
+    Medium-independent (it reads result columns only). The first panel is the share of rows with at
+    least one code instance; then one panel per tally with the mean over the rows at each ``x`` and
+    +-1 standard error, every row drawn as a faint point. Ensembles use it for capacity against a
+    parameter (m/n for random reaction networks, K for random Boolean networks).
+    """
+    rows = [row for row in rows if layout is None or row["layout"] == layout]
+    groups = sorted({row[group] for row in rows}, key=float) if group else [None]
+    panels = ["share with codes", *tallies]
+    fig, axes = plt.subplots(1, len(panels), figsize=(4.2 * len(panels), 3.6), squeeze=False)
+    for number, value in enumerate(groups):
+        members = [row for row in rows if group is None or row[group] == value]
+        xs = sorted({float(row[x]) for row in members})
+        at = {v: [row for row in members if float(row[x]) == v] for v in xs}
+        colour = f"C{number % 10}"
+        label = f"{group} {value}" if group else None
+        share = [np.mean([float(r["code_instances"]) > 0 for r in at[v]]) for v in xs]
+        axes[0, 0].plot(xs, share, marker="o", color=colour, label=label)
+        for ax, tally in zip(axes[0, 1:], tallies):
+            values = [np.array([float(r[tally]) for r in at[v]]) for v in xs]
+            means = [v.mean() for v in values]
+            errors = [v.std(ddof=1) / np.sqrt(v.size) if v.size > 1 else 0.0 for v in values]
+            ax.errorbar(xs, means, yerr=errors, marker="o", color=colour, capsize=2, label=label)
+            for v, points in zip(xs, values):
+                ax.scatter(np.full(points.size, v), points, s=6, color=colour, alpha=0.15, linewidths=0)
+    for ax, name in zip(axes[0], panels):
+        ax.set_xlabel(x)
+        ax.set_title(name.replace("_", " "), fontsize=10)
+        ax.grid(alpha=0.3)
+        if name in ("code_instances", "codes", "coding_contexts"):
+            ax.set_yscale("symlog", linthresh=1.0)
+    highest = max((max(line.get_ydata(), default=0.0) for line in axes[0, 0].lines), default=0.0)
+    axes[0, 0].set_ylim(-0.002, max(0.05, 1.1 * highest))  # codes are rare: do not squash them under 1.0
+    if group:
+        axes[0, 0].legend(fontsize=8)
+    fig.suptitle(title or f"tallies against {x}", x=0.01, ha="left", fontsize=10)
+    fig.tight_layout()
+    fig.savefig(path, dpi=100)
+    plt.close(fig)
+    return Path(path)
 
 
 def _finite(value) -> bool:

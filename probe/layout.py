@@ -53,6 +53,12 @@ class Layout:
     meanings
         ``"pattern"`` (every readout pattern is a meaning) or ``"one-hot"``
         (only patterns with exactly one site on count; the rest read as undefined).
+    distinct_contexts
+        Count contexts with the same closure once (``window = "attractor"`` on a medium whose
+        ``dynamics`` is ``"closure"``): contexts whose context-only run, with every sign site
+        absent, settles to the same state are one context, represented by the first in context
+        order. Under closure ``cl(c + s) = cl(cl(c) + s)``, so merged contexts have the same
+        mapping. Not with ``context_sample`` or ``clamp_signs``. Default: every context counts.
     steps
         Length of the run (default: the window end); the window must lie inside it.
         For ``window = "attractor"``, the most updates spent looking for the
@@ -77,6 +83,7 @@ class Layout:
     context_sample: int | None = None
     meanings: str = "pattern"
     steps: int | None = None
+    distinct_contexts: bool | None = None  # None = False, and keeps older config hashes unchanged
 
     def __post_init__(self):
         for name in ("signs", "contexts", "readout"):
@@ -100,6 +107,18 @@ class Layout:
         density = self.background_density
         if isinstance(density, bool) or not isinstance(density, (int, float)) or not 0.0 <= float(density) <= 1.0:
             raise LayoutError(f"{self._field('background_density')}: {self.background_density!r} must lie in [0, 1]")
+        if self.distinct_contexts is not None:
+            if not isinstance(self.distinct_contexts, bool):
+                raise LayoutError(f"{self._field('distinct_contexts')}: {self.distinct_contexts!r} must be true or false")
+            if self.distinct_contexts and not self.on_attractor:
+                raise LayoutError(f"{self._field('distinct_contexts')}: merges contexts by the state they settle to, "
+                                  f"so it needs window = 'attractor', not {self.window_text}")
+            if self.distinct_contexts and self.context_sample is not None:
+                raise LayoutError(f"{self._field('distinct_contexts')}: cannot be combined with context_sample; "
+                                  f"merge all contexts or sample them")
+            if self.distinct_contexts and self.clamp_signs:
+                raise LayoutError(f"{self._field('distinct_contexts')}: cannot be combined with clamp_signs (a sign "
+                                  f"held absent breaks cl(c + s) = cl(cl(c) + s)); seed the signs")
         if self.context_sample is not None and (not isinstance(self.context_sample, int) or self.context_sample < 2):
             raise LayoutError(f"{self._field('context_sample')}: {self.context_sample!r} must be a whole number >= 2")
 
@@ -171,6 +190,18 @@ class Layout:
                 why = ("sign and context sites must be disjoint" if second == "contexts"
                        else f"clamped {first} cannot be read out; unclamp them or move the readout")
                 raise LayoutError(f"layout {self.name!r}: site {shared[0]} is in both {first} and {second}; {why}")
+        # Under closure a written species stays present, so a readout on a sign or context species would
+        # only echo its input (as a clamped one does): such media need three disjoint lists.
+        if getattr(medium, "dynamics", None) == "closure":
+            for first in ("signs", "contexts"):
+                shared = sorted(set(sites[first].tolist()) & set(sites["readout"].tolist()))
+                if shared:
+                    raise LayoutError(f"layout {self.name!r}: site {shared[0]} is in both {first} and readout; "
+                                      f"under closure a written species stays present, so sign, context and "
+                                      f"readout sites must be disjoint")
+        elif self.distinct_contexts:
+            raise LayoutError(f"{self._field('distinct_contexts')}: needs a medium whose update is a closure "
+                              f"(dynamics = 'closure'); {type(medium).__name__} is not one")
         if sites["signs"].size == 0:
             raise LayoutError(f"{self._field('signs')}: no sign sites; a code needs at least two signs")
         if sites["readout"].size == 0:

@@ -5,7 +5,8 @@ once per instance and its ``m_`` column is copied into every layout's row.
 A measure may run on a variant of the instance: ``[measures] medium = {...}``
 overrides instance parameters for every measure (e.g. a wider ring for
 space-time diagrams) and ``[measures.medium_by_measure] name = {...}`` for one
-measure (e.g. a small ring for transient lengths).
+measure (e.g. a small ring for transient lengths); ``[measures.options]
+name = {...}`` sets a measure's options (e.g. fewer starts).
 """
 
 from __future__ import annotations
@@ -40,11 +41,12 @@ class InstanceMeasurer:
         self.measures = measures or {}
         self.seed = seed
         self.specs = measure_specs(self.measures.get("names", []))
-        unknown = set(self.measures.get("medium_by_measure", {})) - {spec.name for spec in self.specs}
-        if unknown:
-            from probe.measures import MeasureUnavailable
+        for table in ("medium_by_measure", "options"):
+            unknown = set(self.measures.get(table, {})) - {spec.name for spec in self.specs}
+            if unknown:
+                from probe.measures import MeasureUnavailable
 
-            raise MeasureUnavailable(f"[measures.medium_by_measure]: {sorted(unknown)[0]!r} is not in names")
+                raise MeasureUnavailable(f"[measures.{table}]: {sorted(unknown)[0]!r} is not in names")
         self._cache = {}
 
     @property
@@ -61,6 +63,7 @@ class InstanceMeasurer:
                 medium_key = tuple(sorted(chosen.items()))
                 if medium_key not in media:
                     media[medium_key] = registry.build(self.kind, **chosen)
-                values[spec.column] = spec.compute(media[medium_key], seed=self.seed)
+                options = self.measures.get("options", {}).get(spec.name, {})
+                values[spec.column] = spec.compute(media[medium_key], seed=self.seed, **options)
             self._cache[key] = values
         return self._cache[key]

@@ -89,10 +89,13 @@ def reading(correlations: list, note: str, layouts: list) -> str:
     if not correlations:
         return ("No measures were computed for this run, so the report cannot say how semantic capacity relates "
                 "to complexity. Add some with `cprobe measure RUN --add NAME,...` and write the report again.")
-    tests = sum(1 for row in correlations if not math.isnan(row.spearman_p))
+    headline = [row for row in correlations if row.tally == "code_instances" and not math.isnan(row.spearman_p)]
+    tests = len(headline)
     threshold = 0.05 / max(1, tests)
-    sentences = [f"Correlations use {note}. {tests} Spearman tests were run; with a Bonferroni correction a "
-                 f"p-value below {threshold:.1e} would be needed for any single one to stand on its own."]
+    sentences = [f"Correlations use {note}. The headline question, semantic capacity against each measure, "
+                 f"took {tests} Spearman tests; with a Bonferroni correction over them a p-value below "
+                 f"{threshold:.1e} is needed for one to stand on its own. The other tallies in comparison.csv "
+                 f"are exploratory and uncorrected."]
     for layout in layouts:
         main = [row for row in correlations if row.layout == layout and row.tally == "code_instances"
                 and not math.isnan(row.spearman_rho)]
@@ -102,6 +105,7 @@ def reading(correlations: list, note: str, layouts: list) -> str:
         best = max(main, key=lambda row: abs(row.spearman_rho))
         direction = "rises" if best.spearman_rho > 0 else "falls"
         excludes = best.spearman_low > 0 or best.spearman_high < 0
+        survives = best.spearman_p < threshold
         strength = ("strong" if abs(best.spearman_rho) >= 0.6 else "moderate" if abs(best.spearman_rho) >= 0.3
                     else "weak")
         certainty = ("its 95% interval excludes zero" if excludes else "its 95% interval includes zero, so even "
@@ -112,7 +116,7 @@ def reading(correlations: list, note: str, layouts: list) -> str:
             f"Under layout '{layout}', semantic capacity {direction} most clearly with {best.measure} "
             f"(Spearman rho = {best.spearman_rho:.2f}, 95% CI {best.spearman_low:.2f} to {best.spearman_high:.2f}, "
             f"{p_text}, Kendall tau = {best.kendall_tau:.2f}, n = {best.n}): a {strength} monotone association; "
-            f"{certainty}.")
+            f"{certainty}, and it {'survives' if survives else 'does not survive'} the correction.")
         weak = [row.measure for row in main if row.spearman_low <= 0 <= row.spearman_high]
         if weak:
             sentences.append(f"For {', '.join(weak)} the interval includes zero: no clear association.")
@@ -137,7 +141,8 @@ def write_report(folder, *, seed: int | None = None, n_resamples: int = DEFAULT_
     >>> write_report(folder).name
     'report.md'
     """
-    from probe.figures import plot_capacity_by_class, plot_capacity_vs_measures, plot_tally_heatmap
+    from probe.figures import (plot_capacity_by_class, plot_capacity_vs_measures, plot_tally_against,
+                               plot_tally_heatmap)
 
     folder = Path(folder)
     manifest, rows, config_text = _read_run(folder)
@@ -159,6 +164,12 @@ def write_report(folder, *, seed: int | None = None, n_resamples: int = DEFAULT_
     if getattr(family, "class_column", None) and rows and family.class_column in rows[0]:
         figures["by class"] = plot_capacity_by_class(rows, folder / "capacity_by_class.png", family=family,
                                                      layouts=layouts)
+    trend_key = getattr(family, "trend_key", None)
+    if trend_key and rows and trend_key in rows[0]:
+        for layout in layouts:
+            figures[f"trend {layout}"] = plot_tally_against(
+                rows, folder / f"trend_{_slug(layout)}.png", x=trend_key, group=getattr(family, "trend_group", None),
+                layout=layout, title=f"layout {layout!r}: tallies against {trend_key}")
     figures["heatmap"] = plot_tally_heatmap(rows, folder / "tallies_heatmap.png", family=family, layouts=layouts)
     for layout in layouts if measures else []:
         subset = [row for row in rows if row["layout"] == layout]
@@ -181,6 +192,10 @@ def write_report(folder, *, seed: int | None = None, n_resamples: int = DEFAULT_
         source = getattr(family, "class_source", "")
         lines += ["## By published class", "", summary, "", f"Class labels: {source}." if source else "", "",
                   "![capacity by class](capacity_by_class.png)", ""]
+    if trend_key and rows and trend_key in rows[0]:
+        lines += [f"## Tallies against {trend_key}", ""]
+        lines += [f"![tallies against {trend_key}, {layout}](trend_{_slug(layout)}.png)" for layout in layouts]
+        lines += [""]
     lines += ["## Tallies across layouts", "", "![tallies across layouts](tallies_heatmap.png)", ""]
     lines += ["## Semantic capacity and complexity", ""]
     if correlations:

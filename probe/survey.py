@@ -19,6 +19,7 @@ from tqdm import tqdm
 from media import registry
 from probe import runfolder
 from probe.config import SurveyConfig, dumps_toml, load_config
+from probe.errors import ConfigError
 from probe.executors import TaskSpec, run_tasks
 from probe.store import STORE, RunStore, check_store
 from probe.evaluate import check_size, light_cone_report
@@ -92,6 +93,12 @@ def plan_survey(config: SurveyConfig) -> Plan:
                 label = family.instance_label(params)
                 warnings.extend(f"{label}: {line}" for line in light_cone_report(medium, resolved))
             tasks.append(Task(params=params, medium=medium, resolved=resolved))
+    reserved = set(COLUMNS) | {"medium", "layout", "seed", "runs"}
+    for params in ([tasks[0].params] if tasks else []):
+        clash = sorted(reserved & (set(params) | set(family.annotate(params))))
+        if clash:
+            raise ConfigError(f"[medium]: family {config.medium_kind!r} names an instance parameter {clash[0]!r}, "
+                              f"which is also a result column; rename it in the family")
     measurer = None
     if config.measures.get("names"):
         from probe.measuring import InstanceMeasurer

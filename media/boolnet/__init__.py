@@ -67,6 +67,8 @@ class RandomNetworkFamily(MediumFamily):
         "replicates": Parameter(1, "networks drawn per grid point"),
     }
     class_column = "inputs"
+    trend_key = "inputs"
+    trend_group = "nodes"
 
     def build(self, **params):
         full = self.with_defaults(params)
