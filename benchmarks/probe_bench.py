@@ -144,9 +144,10 @@ def main(argv=None):
 
     timings = survey_split(args.config)
     total = timings["total"]
-    print(f"default survey ({args.config}): total {total:.2f} s = evaluate {timings['evaluate']:.2f} s + "
-          f"tally {timings['tally']:.2f} s + write {timings['write']:.2f} s (+ other "
-          f"{max(0.0, total - timings['evaluate'] - timings['tally'] - timings['write']):.2f} s)")
+    parts = ("evaluate", "tally", "measure", "write")
+    other = max(0.0, total - sum(timings.get(part, 0.0) for part in parts))
+    print(f"default survey ({args.config}): total {total:.2f} s = "
+          + " + ".join(f"{part} {timings.get(part, 0.0):.2f} s" for part in parts) + f" (+ other {other:.2f} s)")
     tally_share = timings["tally"] / total
     print(f"slowest general rule: {slowest}")
     print(f"ratio_vs_numpy={ratio_vs_numpy:.1f} ceiling_fraction={ceiling_fraction:.3f} "
