@@ -46,3 +46,30 @@ def unpack(words: np.ndarray, batch: int) -> np.ndarray:
     as_bytes = np.ascontiguousarray(words).astype("<u8", copy=False).view(np.uint8)
     bits = np.unpackbits(as_bytes, axis=-1, bitorder="little")
     return bits[..., :batch]
+
+
+def packed_arguments(medium, initial, steps, watch, watch_from, clamp_sites, clamp_values):
+    """Check ``evolve``/``settle`` arguments and pack states and clamp values into words.
+
+    Returns ``(batch, words, steps, watch, watch_from, clamp_sites, clamp_words)``.
+    """
+    from media.interface import check_evolve_arguments
+
+    initial, steps, watch, watch_from, clamp_sites, clamp_values = check_evolve_arguments(
+        medium, initial, steps, watch, watch_from, clamp_sites, clamp_values)
+    words = pack(initial)
+    clamp_words = pack(clamp_values) if clamp_sites.size else np.zeros((0, words.shape[1]), np.uint64)
+    return initial.shape[0], words, steps, watch, watch_from, clamp_sites, clamp_words
+
+
+def evolve_packed(medium, initial, steps, *, watch, watch_from, clamp_sites, clamp_values, run):
+    """The shared body of a bit-sliced ``evolve``.
+
+    ``run(words, steps, clamp_sites, clamp_words, watch, watch_from, out)`` is the medium's kernel call;
+    ``out`` is ``(times, len(watch), words)`` uint64. Returns the interface's ``(batch, times, watch)`` uint8.
+    """
+    batch, words, steps, watch, watch_from, clamp_sites, clamp_words = packed_arguments(
+        medium, initial, steps, watch, watch_from, clamp_sites, clamp_values)
+    out = np.empty((steps - watch_from + 1, watch.size, words.shape[1]), dtype=np.uint64)
+    run(words, steps, clamp_sites, clamp_words, watch, watch_from, out)
+    return np.ascontiguousarray(unpack(out, batch).transpose(2, 0, 1))

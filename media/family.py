@@ -74,3 +74,32 @@ class MediumFamily:
 
     def instance_label(self, params: dict) -> str:
         return ", ".join(f"{key}={value}" for key, value in params.items())
+
+
+class FileFamily(MediumFamily):
+    """A family whose instances are read from files: ``network = "path"`` (or a list of paths in a survey).
+
+    Subclasses set ``name``, ``summary`` and ``reader`` (a callable from a path to a medium).
+    Relative paths in a survey config are read relative to the config file (``path_keys``).
+    """
+
+    parameters = {"network": Parameter(REQUIRED, "path of the network file")}
+    survey_parameters = {"network": Parameter(REQUIRED, "path of the network file, or a list of paths")}
+    path_keys = ("network",)
+
+    @staticmethod
+    def reader(path):  # pragma: no cover - abstract
+        raise NotImplementedError
+
+    def build(self, **params):
+        return self.reader(self.with_defaults(params)["network"])
+
+    def expand(self, table, seed):
+        self.check_keys(table, "[medium]", self.survey_parameters)
+        if "network" not in table:
+            raise MediumInputError("[medium]: missing key 'network' (path of a network file, or a list of paths)")
+        paths = table["network"] if isinstance(table["network"], list) else [table["network"]]
+        return [{"network": str(path)} for path in paths]
+
+    def instance_label(self, params):
+        return str(params["network"])

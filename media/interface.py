@@ -196,3 +196,19 @@ def settle_by_steps(medium, initial, *, watch, max_steps, clamp_sites=None, clam
         varies |= active & (walker[:, watch] != meet[:, watch]).any(axis=1)
         returned |= active & (walker == meet).all(axis=1)
     return np.ascontiguousarray(meet[:, watch]), met & ~varies
+
+
+def downstream(readers, sites, steps) -> np.ndarray:
+    """The light cone of a graph medium: ``sites`` and every site reached from them by 1..``steps`` edges.
+
+    ``readers[i]`` holds the sites whose update reads site ``i``.
+    """
+    mask = np.zeros(len(readers), dtype=bool)
+    frontier = set(np.asarray(sites, dtype=np.int64).reshape(-1).tolist())
+    mask[list(frontier)] = True
+    for _ in range(int(steps)):
+        frontier = {reader for node in frontier for reader in readers[node] if not mask[reader]}
+        if not frontier:
+            break
+        mask[list(frontier)] = True
+    return mask

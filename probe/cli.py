@@ -13,6 +13,7 @@ import click
 
 from probe import api
 from probe.errors import INPUT_ERRORS
+from probe.runfolder import number_or_text as _value
 
 
 class ProbeGroup(click.Group):
@@ -41,15 +42,6 @@ def cli():
       cprobe tally --rule 110 --signs 10,11 --contexts 4-9,12-17 --readout 10,11 --window 4:8
       cprobe survey configs/eca-survey.toml          a whole rule space into a run folder
     """
-
-
-def _value(text: str):
-    for convert in (int, float):
-        try:
-            return convert(text)
-        except ValueError:
-            pass
-    return text
 
 
 def medium_options(command):

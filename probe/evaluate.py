@@ -60,6 +60,14 @@ def check_size(resolved: ResolvedLayout, max_runs: int) -> None:
             f"use fewer sign or context sites, or raise max_runs")
 
 
+def clamped_sites(resolved: ResolvedLayout) -> np.ndarray:
+    """The sites a layout holds at their initial values after every step (clamped signs and contexts)."""
+    spec = resolved.layout
+    held = [sites for flag, sites in ((spec.clamp_signs, resolved.sign_sites),
+                                      (spec.clamp_contexts, resolved.context_sites)) if flag]
+    return np.concatenate(held) if held else np.zeros(0, dtype=np.int64)
+
+
 def meaning_dtype(resolved: ResolvedLayout):
     """The smallest signed integer type that holds every meaning number and -1, to keep big tables small."""
     if resolved.layout.meanings == "one-hot":
@@ -144,12 +152,7 @@ def evaluate(medium, layout: Layout | ResolvedLayout, *, seed: int = 0, max_runs
     spec = resolved.layout
     if spec.distinct_contexts:
         resolved = distinct_contexts(medium, resolved)
-    clamp = []
-    if spec.clamp_signs:
-        clamp.append(resolved.sign_sites)
-    if spec.clamp_contexts:
-        clamp.append(resolved.context_sites)
-    clamp_sites = np.concatenate(clamp) if clamp else np.zeros(0, dtype=np.int64)
+    clamp_sites = clamped_sites(resolved)
 
     n_contexts = resolved.n_contexts
     per_chunk = max(1, CHUNK_CELLS // max(1, resolved.n_signs * medium.n_sites))

@@ -81,10 +81,11 @@ def rows_to_csv(rows: list, columns: list) -> str:
 def read_results(folder) -> list:
     """Result rows of a run folder as dicts, numbers converted back from text."""
     with open(Path(folder) / RESULTS, newline="", encoding="utf-8") as handle:
-        return [{key: _number(value) for key, value in row.items()} for row in csv.DictReader(handle)]
+        return [{key: number_or_text(value) for key, value in row.items()} for row in csv.DictReader(handle)]
 
 
-def _number(text):
+def number_or_text(text):
+    """``"3"`` -> 3, ``"0.5"`` -> 0.5, anything else unchanged (CSV cells and KEY=VALUE options)."""
     for convert in (int, float):
         try:
             return convert(text)

@@ -7,7 +7,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from media.attractors import attractor_from
-from probe.evaluate import MeaningTable, UNDEFINED, evaluate, initial_states
+from probe.evaluate import MeaningTable, UNDEFINED, clamped_sites, evaluate, initial_states
 from probe.layout import patterns_from_numbers
 
 
@@ -60,12 +60,7 @@ def witness_diagrams(medium, table: MeaningTable, witness: CodeWitness, extra_st
     diagrams = []
     for context in witness.context_pair:
         states = initial_states(resolved, context, context + 1, medium.n_sites)[list(witness.sign_pair)]
-        clamp = []
-        if layout.clamp_signs:
-            clamp.append(resolved.sign_sites)
-        if layout.clamp_contexts:
-            clamp.append(resolved.context_sites)
-        clamp_sites = np.concatenate(clamp) if clamp else np.zeros(0, dtype=np.int64)
+        clamp_sites = clamped_sites(resolved)
         runs = medium.evolve(states, steps, watch=np.arange(medium.n_sites), clamp_sites=clamp_sites,
                              clamp_values=states[:, clamp_sites])
         diagrams.append([runs[0], runs[1]])
@@ -74,10 +69,7 @@ def witness_diagrams(medium, table: MeaningTable, witness: CodeWitness, extra_st
 
 def settling_horizon(medium, resolved, witness, max_steps: int) -> int:
     """Updates until every run of the witness has been once around its attractor (at most ``max_steps``)."""
-    layout = resolved.layout
-    clamp = [sites for held, sites in ((layout.clamp_signs, resolved.sign_sites),
-                                       (layout.clamp_contexts, resolved.context_sites)) if held]
-    clamp_sites = np.concatenate(clamp) if clamp else np.zeros(0, dtype=np.int64)
+    clamp_sites = clamped_sites(resolved)
     horizon = 1
     for context in witness.context_pair:
         states = initial_states(resolved, context, context + 1, medium.n_sites)[list(witness.sign_pair)]

@@ -7,30 +7,15 @@ import numpy as np
 from media.attractors import Attractor, attractor_from, attractors
 from media.boolnet.network import BooleanNetwork, random_network
 from media.errors import require
-from media.family import MediumFamily, Parameter, REQUIRED
+from media.family import FileFamily, MediumFamily, Parameter, REQUIRED
 
 
-class NetworkFileFamily(MediumFamily):
+class NetworkFileFamily(FileFamily):
     """Registry entry ``boolnet``: one Boolean network read from a TOML file."""
 
     name = "boolnet"
     summary = "a Boolean network from a TOML file (expressions, truth tables or threshold rules), synchronous"
-    parameters = {"network": Parameter(REQUIRED, "path of the network file")}
-    survey_parameters = {"network": Parameter(REQUIRED, "path of the network file, or a list of paths")}
-    path_keys = ("network",)
-
-    def build(self, **params):
-        full = self.with_defaults(params)
-        return BooleanNetwork.from_toml(full["network"])
-
-    def expand(self, table, seed):
-        self.check_keys(table, "[medium]", self.survey_parameters)
-        require("network" in table, "[medium]: missing key 'network' (path of a network file)")
-        paths = table["network"] if isinstance(table["network"], list) else [table["network"]]
-        return [{"network": str(path)} for path in paths]
-
-    def instance_label(self, params):
-        return str(params["network"])
+    reader = staticmethod(BooleanNetwork.from_toml)
 
 
 def network_seed(seed: int, nodes: int, inputs: int, bias: float, replicate: int) -> int:

@@ -42,7 +42,7 @@ from media.boolnet.expressions import MAX_INPUTS, input_rows, names_in, parse, t
 from media.boolnet.kernels import _evolve_words, _settle_words
 from media.errors import MediumInputError, require
 from media.family import unknown_key_message
-from media.interface import Medium, check_evolve_arguments
+from media.interface import Medium, downstream
 
 ALL_ONES = np.uint64(0xFFFFFFFFFFFFFFFF)
 NODE_KEYS = ("name", "update", "inputs", "table", "weights", "threshold", "tie")
@@ -218,36 +218,23 @@ class BooleanNetwork(Medium):
 
     def reach(self, sites, steps):
         """The sites themselves and every node downstream of them by a path of 1..``steps`` edges."""
-        readers = [[] for _ in range(self.n_sites)]
+        readers = [set() for _ in range(self.n_sites)]
         for node, row in enumerate(self.inputs):
-            for source in set(row.tolist()):
-                readers[source].append(node)
-        mask = np.zeros(self.n_sites, dtype=bool)
-        frontier = set(np.asarray(sites, dtype=np.int64).reshape(-1).tolist())
-        mask[list(frontier)] = True
-        for _ in range(int(steps)):
-            frontier = {reader for node in frontier for reader in readers[node] if not mask[reader]}
-            if not frontier:
-                break
-            mask[list(frontier)] = True
-        return mask
+            for source in row.tolist():
+                readers[source].add(node)
+        return downstream(readers, sites, steps)
 
     def evolve(self, initial, steps, *, watch, watch_from=0, clamp_sites=None, clamp_values=None):
-        initial, steps, watch, watch_from, clamp_sites, clamp_values = check_evolve_arguments(
-            self, initial, steps, watch, watch_from, clamp_sites, clamp_values)
-        words = bitslice.pack(initial)
-        clamp_words = bitslice.pack(clamp_values) if clamp_sites.size else np.zeros((0, words.shape[1]), np.uint64)
-        out = np.empty((steps - watch_from + 1, watch.size, words.shape[1]), dtype=np.uint64)
-        _evolve_words(words, steps, self._input_ptr, self._inputs, self._table_ptr, self._masks, self._max_inputs,
-                      clamp_sites, clamp_words, watch, watch_from, out)
-        return np.ascontiguousarray(bitslice.unpack(out, initial.shape[0]).transpose(2, 0, 1))
+        def run(words, steps, clamp_sites, clamp_words, watch, watch_from, out):
+            _evolve_words(words, steps, self._input_ptr, self._inputs, self._table_ptr, self._masks,
+                          self._max_inputs, clamp_sites, clamp_words, watch, watch_from, out)
+
+        return bitslice.evolve_packed(self, initial, steps, watch=watch, watch_from=watch_from,
+                                      clamp_sites=clamp_sites, clamp_values=clamp_values, run=run)
 
     def settle(self, initial, *, watch, max_steps, clamp_sites=None, clamp_values=None):
-        initial, max_steps, watch, _, clamp_sites, clamp_values = check_evolve_arguments(
+        batch, words, max_steps, watch, _, clamp_sites, clamp_words = bitslice.packed_arguments(
             self, initial, max_steps, watch, 0, clamp_sites, clamp_values)
-        batch = initial.shape[0]
-        words = bitslice.pack(initial)
-        clamp_words = bitslice.pack(clamp_values) if clamp_sites.size else np.zeros((0, words.shape[1]), np.uint64)
         valid = bitslice.pack(np.ones((batch, 1), dtype=np.uint8))[0]
         meet, varies, met = _settle_words(words, max_steps, self._input_ptr, self._inputs, self._table_ptr,
                                           self._masks, self._max_inputs, clamp_sites, clamp_words, watch, valid)

@@ -74,34 +74,32 @@ def _evolve_block(current, steps, masks, periodic, clamp_sites, clamp_words, wat
 
 
 @kernel
+def _evolve_one_block(words, block, steps, masks, periodic, clamp_sites, clamp_words, watch, watch_from, out,
+                      block_words):
+    start = block * block_words
+    stop = min(words.shape[1], start + block_words)
+    current = np.ascontiguousarray(words[:, start:stop])
+    block_clamps = np.ascontiguousarray(clamp_words[:, start:stop])
+    block_out = np.empty((out.shape[0], out.shape[1], stop - start), dtype=np.uint64)
+    _evolve_block(current, steps, masks, periodic, clamp_sites, block_clamps, watch, watch_from, block_out)
+    out[:, :, start:stop] = block_out
+
+
+@kernel
 def _evolve_words_serial(words, steps, masks, periodic, clamp_sites, clamp_words, watch, watch_from, out,
                          block_words):
-    n_sites, n_words = words.shape
-    n_blocks = (n_words + block_words - 1) // block_words
-    for block in range(n_blocks):
-        start = block * block_words
-        stop = min(n_words, start + block_words)
-        current = np.ascontiguousarray(words[:, start:stop])
-        block_clamps = np.ascontiguousarray(clamp_words[:, start:stop])
-        block_out = np.empty((out.shape[0], out.shape[1], stop - start), dtype=np.uint64)
-        _evolve_block(current, steps, masks, periodic, clamp_sites, block_clamps, watch, watch_from, block_out)
-        out[:, :, start:stop] = block_out
+    for block in range((words.shape[1] + block_words - 1) // block_words):
+        _evolve_one_block(words, block, steps, masks, periodic, clamp_sites, clamp_words, watch, watch_from, out,
+                          block_words)
 
 
 @parallel_kernel
 def _evolve_words(words, steps, masks, periodic, clamp_sites, clamp_words, watch, watch_from, out, block_words):
     """Runs are independent, so blocks of words go through all steps on their own (one block per thread
     at a time, each small enough to stay in cache)."""
-    n_sites, n_words = words.shape
-    n_blocks = (n_words + block_words - 1) // block_words
-    for block in prange(n_blocks):
-        start = block * block_words
-        stop = min(n_words, start + block_words)
-        current = np.ascontiguousarray(words[:, start:stop])
-        block_clamps = np.ascontiguousarray(clamp_words[:, start:stop])
-        block_out = np.empty((out.shape[0], out.shape[1], stop - start), dtype=np.uint64)
-        _evolve_block(current, steps, masks, periodic, clamp_sites, block_clamps, watch, watch_from, block_out)
-        out[:, :, start:stop] = block_out
+    for block in prange((words.shape[1] + block_words - 1) // block_words):
+        _evolve_one_block(words, block, steps, masks, periodic, clamp_sites, clamp_words, watch, watch_from, out,
+                          block_words)
 
 
 def block_words_for(n_sites: int) -> int:

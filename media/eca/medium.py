@@ -6,7 +6,7 @@ from media import bitslice
 from media.eca.kernels import _evolve_words, _evolve_words_serial, block_words_for, rule_masks
 from media.eca.rules import check_rule, rule_table
 from media.errors import require
-from media.interface import Medium, check_evolve_arguments
+from media.interface import Medium
 
 BOUNDARIES = ("periodic", "fixed")
 
@@ -74,15 +74,13 @@ class ElementaryCA(Medium):
         return mask
 
     def evolve(self, initial, steps, *, watch, watch_from=0, clamp_sites=None, clamp_values=None):
-        initial, steps, watch, watch_from, clamp_sites, clamp_values = check_evolve_arguments(
-            self, initial, steps, watch, watch_from, clamp_sites, clamp_values)
-        batch = initial.shape[0]
-        words = bitslice.pack(initial)
-        clamp_words = bitslice.pack(clamp_values) if clamp_sites.size else np.zeros((0, words.shape[1]), np.uint64)
-        out = np.empty((steps - watch_from + 1, watch.size, words.shape[1]), dtype=np.uint64)
         block = block_words_for(self.n_sites)
-        # Threads only pay off with several blocks; a survey's small batches run on one.
-        run = _evolve_words if words.shape[1] >= 4 * block else _evolve_words_serial
-        run(words, steps, self._masks, self.boundary == "periodic", clamp_sites, clamp_words, watch, watch_from,
-            out, block)
-        return np.ascontiguousarray(bitslice.unpack(out, batch).transpose(2, 0, 1))
+
+        def run(words, steps, clamp_sites, clamp_words, watch, watch_from, out):
+            # Threads only pay off with several blocks; a survey's small batches run on one.
+            kernel = _evolve_words if words.shape[1] >= 4 * block else _evolve_words_serial
+            kernel(words, steps, self._masks, self.boundary == "periodic", clamp_sites, clamp_words, watch,
+                   watch_from, out, block)
+
+        return bitslice.evolve_packed(self, initial, steps, watch=watch, watch_from=watch_from,
+                                      clamp_sites=clamp_sites, clamp_values=clamp_values, run=run)

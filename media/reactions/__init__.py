@@ -35,34 +35,19 @@ import zlib
 import numpy as np
 
 from media.errors import require
-from media.family import MediumFamily, Parameter, REQUIRED
+from media.family import FileFamily, MediumFamily, Parameter, REQUIRED
 from media.reactions.equations import equation_text, parse_equation
 from media.reactions.generators import (group_names, possible_reactions, random_reaction_network,
                                         reactions_for)
 from media.reactions.network import Reaction, ReactionNetwork
 
 
-class ReactionFileFamily(MediumFamily):
+class ReactionFileFamily(FileFamily):
     """Registry entry ``reactions``: one reaction network read from a TOML file."""
 
     name = "reactions"
     summary = "a reaction network from a TOML file; one step = one round of firing, settling at the closure"
-    parameters = {"network": Parameter(REQUIRED, "path of the reaction network file")}
-    survey_parameters = {"network": Parameter(REQUIRED, "path of the network file, or a list of paths")}
-    path_keys = ("network",)
-
-    def build(self, **params):
-        full = self.with_defaults(params)
-        return ReactionNetwork.from_toml(full["network"])
-
-    def expand(self, table, seed):
-        self.check_keys(table, "[medium]", self.survey_parameters)
-        require("network" in table, "[medium]: missing key 'network' (path of a reaction network file)")
-        paths = table["network"] if isinstance(table["network"], list) else [table["network"]]
-        return [{"network": str(path)} for path in paths]
-
-    def instance_label(self, params):
-        return str(params["network"])
+    reader = staticmethod(ReactionNetwork.from_toml)
 
 
 def network_seed(seed: int, species: int, ratio: float, replicate: int) -> int:

@@ -70,7 +70,7 @@ else:  # pragma: no cover
 from media import bitslice
 from media.errors import MediumInputError, require
 from media.family import unknown_key_message
-from media.interface import Medium, check_evolve_arguments
+from media.interface import Medium, downstream
 from media.reactions.equations import equation_text, parse_equation, valid_name
 from media.reactions.kernels import _evolve_words, _settle_words
 
@@ -259,33 +259,20 @@ class ReactionNetwork(Medium):
         for reactants, products in zip(self._reactant_lists, self._product_lists):
             for source in reactants.tolist():
                 readers[source].update(products.tolist())
-        mask = np.zeros(self.n_sites, dtype=bool)
-        frontier = set(np.asarray(sites, dtype=np.int64).reshape(-1).tolist())
-        mask[list(frontier)] = True
-        for _ in range(int(steps)):
-            frontier = {reader for node in frontier for reader in readers[node] if not mask[reader]}
-            if not frontier:
-                break
-            mask[list(frontier)] = True
-        return mask
+        return downstream(readers, sites, steps)
 
     def evolve(self, initial, steps, *, watch, watch_from=0, clamp_sites=None, clamp_values=None):
-        initial, steps, watch, watch_from, clamp_sites, clamp_values = check_evolve_arguments(
-            self, initial, steps, watch, watch_from, clamp_sites, clamp_values)
-        words = bitslice.pack(initial)
-        clamp_words = bitslice.pack(clamp_values) if clamp_sites.size else np.zeros((0, words.shape[1]), np.uint64)
-        out = np.empty((steps - watch_from + 1, watch.size, words.shape[1]), dtype=np.uint64)
-        _evolve_words(words, steps, self._reactant_ptr, self._reactants, self._product_ptr, self._products,
-                      clamp_sites, clamp_words, watch, watch_from, out)
-        return np.ascontiguousarray(bitslice.unpack(out, initial.shape[0]).transpose(2, 0, 1))
+        def run(words, steps, clamp_sites, clamp_words, watch, watch_from, out):
+            _evolve_words(words, steps, self._reactant_ptr, self._reactants, self._product_ptr, self._products,
+                          clamp_sites, clamp_words, watch, watch_from, out)
+
+        return bitslice.evolve_packed(self, initial, steps, watch=watch, watch_from=watch_from,
+                                      clamp_sites=clamp_sites, clamp_values=clamp_values, run=run)
 
     def settle(self, initial, *, watch, max_steps, clamp_sites=None, clamp_values=None):
         """The closure of every run (bit-sliced), and whether it was reached within ``max_steps`` rounds."""
-        initial, max_steps, watch, _, clamp_sites, clamp_values = check_evolve_arguments(
+        batch, words, max_steps, watch, _, clamp_sites, clamp_words = bitslice.packed_arguments(
             self, initial, max_steps, watch, 0, clamp_sites, clamp_values)
-        batch = initial.shape[0]
-        words = bitslice.pack(initial)
-        clamp_words = bitslice.pack(clamp_values) if clamp_sites.size else np.zeros((0, words.shape[1]), np.uint64)
         pattern = np.empty((watch.size, words.shape[1]), dtype=np.uint64)
         met = np.empty(words.shape[1], dtype=np.uint64)
         _settle_words(words, max_steps, self._reactant_ptr, self._reactants, self._product_ptr, self._products,

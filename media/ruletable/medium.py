@@ -3,7 +3,7 @@
 import numpy as np
 
 from media import bitslice, lattice
-from media.interface import Medium, check_evolve_arguments
+from media.interface import Medium
 from media.ruletable.kernels import _evolve_words
 from media.ruletable.rules import check_radius, check_rule, rule_masks, rule_table
 
@@ -52,12 +52,9 @@ class RuleTableCA(Medium):
         return lattice.reach(self.width, self.radius, self.boundary, sites, steps)
 
     def evolve(self, initial, steps, *, watch, watch_from=0, clamp_sites=None, clamp_values=None):
-        initial, steps, watch, watch_from, clamp_sites, clamp_values = check_evolve_arguments(
-            self, initial, steps, watch, watch_from, clamp_sites, clamp_values)
-        batch = initial.shape[0]
-        words = bitslice.pack(initial)
-        clamp_words = bitslice.pack(clamp_values) if clamp_sites.size else np.zeros((0, words.shape[1]), np.uint64)
-        out = np.empty((steps - watch_from + 1, watch.size, words.shape[1]), dtype=np.uint64)
-        _evolve_words(words, steps, self._masks, self.radius, self._source,
-                      clamp_sites, clamp_words, watch, watch_from, out)
-        return np.ascontiguousarray(bitslice.unpack(out, batch).transpose(2, 0, 1))
+        def run(words, steps, clamp_sites, clamp_words, watch, watch_from, out):
+            _evolve_words(words, steps, self._masks, self.radius, self._source, clamp_sites, clamp_words, watch,
+                          watch_from, out)
+
+        return bitslice.evolve_packed(self, initial, steps, watch=watch, watch_from=watch_from,
+                                      clamp_sites=clamp_sites, clamp_values=clamp_values, run=run)
