@@ -11,7 +11,10 @@ the summary figure colours by (``class_column``).
 from __future__ import annotations
 
 import difflib
+import zlib
 from dataclasses import dataclass
+
+import numpy as np
 
 from media.errors import MediumInputError
 
@@ -103,3 +106,23 @@ class FileFamily(MediumFamily):
 
     def instance_label(self, params):
         return str(params["network"])
+
+
+def ensemble_seed(seed: int, purpose: str, *grid_point: int) -> int:
+    """The seed of one ensemble member: ``SeedSequence([seed, crc32(purpose), *grid_point])``'s first word.
+
+    Ensembles record it per row, so any member can be rebuilt from its row alone.
+    """
+    words = [int(seed), zlib.crc32(purpose.encode()), *(int(value) for value in grid_point)]
+    return int(np.random.SeedSequence(words).generate_state(1, dtype=np.uint32)[0])
+
+
+def grid_values(value, name: str, kind) -> list:
+    """A survey grid axis: one value or a list, each of ``kind``; one-line errors name the key."""
+    values = value if isinstance(value, list) else [value]
+    if not values:
+        raise MediumInputError(f"[medium] {name}: give at least one value")
+    for item in values:
+        if not isinstance(item, kind) or isinstance(item, bool):
+            raise MediumInputError(f"[medium] {name}: {item!r} is not a {'whole number' if kind is int else 'number'}")
+    return values

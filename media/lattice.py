@@ -16,6 +16,7 @@ from __future__ import annotations
 import numpy as np
 
 from media.errors import require
+from media.jit import kernel
 from media.numbersets import as_whole_number
 
 BOUNDARIES = ("periodic", "fixed")
@@ -83,3 +84,15 @@ def reach(width: int, radius: int, boundary: str, sites, steps: int) -> np.ndarr
             distance = np.minimum(distance, width - distance)
         mask |= distance <= radius * int(steps)
     return mask
+
+
+@kernel
+def _refresh_padding(rows, source, radius):
+    """Copy the wrapped (or zero) cells into the ``radius`` padding rows at both ends of a padded row block.
+
+    ``source[p]`` is the real row that padding row ``p`` mirrors, or -1 where it stays zero (fixed boundary).
+    """
+    n_padded = rows.shape[0]
+    for p in range(n_padded):
+        if (p < radius or p >= n_padded - radius) and source[p] >= 0:
+            rows[p, :] = rows[radius + source[p], :]

@@ -182,7 +182,7 @@ def write_report(folder, *, seed: int | None = None, n_resamples: int = DEFAULT_
     lines += [f"- medium: `{manifest['medium']}`, {manifest.get('tasks', len(rows))} tasks "
               f"({len(rows) // max(1, len(layouts))} instances x {len(layouts)} layouts)",
               f"- seed: {seed}; config hash `{manifest.get('config_hash', '')[:16]}`; written {manifest.get('created', '')}",
-              f"- versions: " + ", ".join(f"{k} {v}" for k, v in manifest.get("packages", {}).items() if v), ""]
+              "- versions: " + ", ".join(f"{k} {v}" for k, v in manifest.get("packages", {}).items() if v), ""]
     lines += [CAUTION, ""]
     lines += ["## Configuration", "", "```toml", config_text.strip(), "```", ""]
     lines += ["## Semantic capacity", "", capacity_summary(rows, layouts, family), "",

@@ -1,13 +1,11 @@
 """Boolean networks: our TOML format, random N-K networks, bit-sliced evolution and attractors."""
 
-import zlib
 
-import numpy as np
 
 from media.attractors import Attractor, attractor_from, attractors
 from media.boolnet.network import BooleanNetwork, random_network
 from media.errors import require
-from media.family import FileFamily, MediumFamily, Parameter, REQUIRED
+from media.family import FileFamily, MediumFamily, Parameter, REQUIRED, ensemble_seed, grid_values
 
 
 class NetworkFileFamily(FileFamily):
@@ -20,17 +18,10 @@ class NetworkFileFamily(FileFamily):
 
 def network_seed(seed: int, nodes: int, inputs: int, bias: float, replicate: int) -> int:
     """The seed of one ensemble member, derived from the run seed and its grid point."""
-    words = [int(seed), zlib.crc32(b"rbn"), int(nodes), int(inputs), int(round(float(bias) * 1_000_000)), int(replicate)]
-    return int(np.random.SeedSequence(words).generate_state(1, dtype=np.uint32)[0])
+    return ensemble_seed(seed, "rbn", nodes, inputs, round(float(bias) * 1_000_000), replicate)
 
 
-def _grid(value, name, kind):
-    values = value if isinstance(value, list) else [value]
-    require(values, f"[medium] {name}: give at least one value")
-    for item in values:
-        require(isinstance(item, kind) and not isinstance(item, bool),
-                f"[medium] {name}: {item!r} is not a {'whole number' if kind is int else 'number'}")
-    return values
+_grid = grid_values
 
 
 class RandomNetworkFamily(MediumFamily):

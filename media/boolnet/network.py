@@ -27,20 +27,14 @@ listed (first node least significant), as everywhere in the project.
 
 from __future__ import annotations
 
-import sys
-from pathlib import Path
 
 import numpy as np
 
-if sys.version_info >= (3, 11):
-    import tomllib
-else:  # pragma: no cover
-    import tomli as tomllib
 
 from media import bitslice
 from media.boolnet.expressions import MAX_INPUTS, input_rows, names_in, parse, truth_table
 from media.boolnet.kernels import _evolve_words, _settle_words
-from media.errors import MediumInputError, require
+from media.errors import MediumInputError, read_toml_file, require
 from media.family import unknown_key_message
 from media.interface import Medium, downstream
 
@@ -160,14 +154,7 @@ class BooleanNetwork(Medium):
     @classmethod
     def from_toml(cls, path) -> "BooleanNetwork":
         """Read a network file (format in the module docstring)."""
-        path = Path(path)
-        where = f"network file {str(path)!r}"
-        try:
-            data = tomllib.loads(path.read_text(encoding="utf-8"))
-        except FileNotFoundError:
-            raise MediumInputError(f"{where}: no such file") from None
-        except tomllib.TOMLDecodeError as error:
-            raise MediumInputError(f"{where}: malformed TOML: {error}") from None
+        data, where = read_toml_file(path)
         for key in data:
             if key not in ("network", "node"):
                 raise MediumInputError(unknown_key_message(where, key, ("network", "node")))

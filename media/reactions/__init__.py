@@ -30,12 +30,10 @@ Probing a reaction network (nothing here is special to the probe; these are layo
   (``distinct_contexts``), asked for explicitly.
 """
 
-import zlib
 
-import numpy as np
 
 from media.errors import require
-from media.family import FileFamily, MediumFamily, Parameter, REQUIRED
+from media.family import FileFamily, MediumFamily, Parameter, REQUIRED, ensemble_seed, grid_values
 from media.reactions.equations import equation_text, parse_equation
 from media.reactions.generators import (group_names, possible_reactions, random_reaction_network,
                                         reactions_for)
@@ -52,18 +50,10 @@ class ReactionFileFamily(FileFamily):
 
 def network_seed(seed: int, species: int, ratio: float, replicate: int) -> int:
     """The seed of one ensemble member, derived from the run seed and its grid point (not its groups)."""
-    words = [int(seed), zlib.crc32(b"random-reactions"), int(species), int(round(float(ratio) * 1_000_000)),
-             int(replicate)]
-    return int(np.random.SeedSequence(words).generate_state(1, dtype=np.uint32)[0])
+    return ensemble_seed(seed, "random-reactions", species, round(float(ratio) * 1_000_000), replicate)
 
 
-def _grid(value, name, kind):
-    values = value if isinstance(value, list) else [value]
-    require(values, f"[medium] {name}: give at least one value")
-    for item in values:
-        require(isinstance(item, kind) and not isinstance(item, bool),
-                f"[medium] {name}: {item!r} is not a {'whole number' if kind is int else 'number'}")
-    return values
+_grid = grid_values
 
 
 def _number(value, name):

@@ -56,19 +56,13 @@ species in a reaction, a reaction with no products, a bad coefficient.
 
 from __future__ import annotations
 
-import sys
 from dataclasses import dataclass
-from pathlib import Path
 
 import numpy as np
 
-if sys.version_info >= (3, 11):
-    import tomllib
-else:  # pragma: no cover
-    import tomli as tomllib
 
 from media import bitslice
-from media.errors import MediumInputError, require
+from media.errors import MediumInputError, read_toml_file, require
 from media.family import unknown_key_message
 from media.interface import Medium, downstream
 from media.reactions.equations import equation_text, parse_equation, valid_name
@@ -178,18 +172,7 @@ class ReactionNetwork(Medium):
     @classmethod
     def from_toml(cls, path) -> "ReactionNetwork":
         """Read a network file (format in the module docstring)."""
-        path = Path(path)
-        where = f"network file {str(path)!r}"
-        try:
-            data = tomllib.loads(path.read_text(encoding="utf-8"))
-        except FileNotFoundError:
-            raise MediumInputError(f"{where}: no such file") from None
-        except IsADirectoryError:
-            raise MediumInputError(f"{where}: is a folder, not a network file") from None
-        except UnicodeDecodeError:
-            raise MediumInputError(f"{where}: malformed TOML: not UTF-8 text") from None
-        except tomllib.TOMLDecodeError as error:
-            raise MediumInputError(f"{where}: malformed TOML: {error}") from None
+        data, where = read_toml_file(path)
         network = cls.from_dict(data, where=where, source=str(path))
         network.params = {"network": str(path)}
         return network

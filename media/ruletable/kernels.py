@@ -21,16 +21,9 @@ and ``source[p]`` names the cell a padding entry copies after each step
 import numpy as np
 
 from media.jit import kernel
+from media.lattice import _refresh_padding
 
 BLOCK = 128  # words per block (8192 runs): radius 3's widest level then takes 32 KiB
-
-
-@kernel
-def _refresh_padding(rows, source, radius):
-    n_padded = rows.shape[0]
-    for p in range(n_padded):
-        if (p < radius or p >= n_padded - radius) and source[p] >= 0:
-            rows[p, :] = rows[radius + source[p], :]
 
 
 @kernel

@@ -15,14 +15,7 @@ step, or ``-1`` for a fixed zero.
 import numpy as np
 
 from media.jit import kernel
-
-
-@kernel
-def _refresh_padding(rows, source, radius):
-    n_padded = rows.shape[0]
-    for p in range(n_padded):
-        if (p < radius or p >= n_padded - radius) and source[p] >= 0:
-            rows[p, :] = rows[radius + source[p], :]
+from media.lattice import _refresh_padding
 
 
 @kernel
