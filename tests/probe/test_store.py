@@ -136,3 +136,11 @@ def test_store_is_in_wal_mode_with_one_row_per_task(tmp_path):
     assert connection.execute("PRAGMA journal_mode").fetchone()[0] == "wal"
     assert connection.execute("SELECT count(*) FROM results").fetchone()[0] == 5
     connection.close()
+
+
+def test_parquet_export_matches_the_csv(tmp_path):
+    pyarrow_parquet = pytest.importorskip("pyarrow.parquet")
+    text = CONFIG.replace('rules = "all"', 'rules = "0-7"')
+    run_survey(parse_config_text(text), tmp_path / "run", progress=False, figure=False)
+    table = pyarrow_parquet.read_table(tmp_path / "run" / "results.parquet").to_pylist()
+    assert table == read_results(tmp_path / "run")
