@@ -137,7 +137,7 @@ def plot_witness(diagrams, path, *, sites: dict, window, labels, site_names=None
         handles.append(plt.Line2D([], [], linestyle="", label="readout: on the attractor"))
     fig.legend(handles=handles, loc="lower center", ncol=4, fontsize=8, frameon=False)
     fig.suptitle(title, fontsize=10)
-    fig.tight_layout(rect=(0, 0.05, 1, 0.95), h_pad=2.0)
+    fig.tight_layout(rect=(0, 0.05, 1, 0.95), h_pad=2.0 if site_names is None else 6.0)  # room for rotated names
     fig.savefig(path, dpi=110)
     plt.close(fig)
     return path
