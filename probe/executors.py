@@ -42,23 +42,31 @@ class TaskSpec:
 _MEASURERS = {}
 
 
-def execute_task(spec: TaskSpec) -> tuple:
-    """Run one task: build the medium and layout, evaluate, tally, measure; return ``(index, row, timings)``."""
+def execute_task(spec: TaskSpec, prepared=None) -> tuple:
+    """Run one task: build the medium and layout, evaluate, tally, measure; return ``(index, row, timings)``.
+
+    ``prepared`` is ``(medium, resolved_layout, measurer)`` when the caller already built them (the serial
+    executor reuses the plan's), so nothing is built twice in one process.
+    """
     from media import registry
     from probe.evaluate import evaluate
     from probe.layout import Layout
     from probe.tally import tally_table
 
     family = registry.family(spec.kind)
-    medium = registry.build(spec.kind, **spec.params)
-    layout = Layout(**spec.layout)
+    if prepared is not None:
+        medium, layout, measurer = prepared
+    else:
+        medium, layout, measurer = registry.build(spec.kind, **spec.params), Layout(**spec.layout), None
     started = time.perf_counter()
     table = evaluate(medium, layout, seed=spec.seed, max_runs=spec.max_runs)
     evaluated = time.perf_counter()
     tallies = tally_table(table)
     tallied = time.perf_counter()
     measured = {}
-    if spec.measures.get("names"):
+    if measurer is not None:
+        measured = measurer(spec.params)
+    elif spec.measures.get("names"):
         from probe.measuring import InstanceMeasurer
 
         key = (spec.kind, repr(sorted(spec.measures.items())), spec.seed)
@@ -66,14 +74,20 @@ def execute_task(spec: TaskSpec) -> tuple:
             _MEASURERS[key] = InstanceMeasurer(spec.kind, spec.measures, spec.seed)
         measured = _MEASURERS[key](spec.params)
     done = time.perf_counter()
-    row = {"medium": spec.kind, **spec.params, **family.annotate(spec.params), "layout": layout.name,
+    name = table.resolved.layout.name
+    row = {"medium": spec.kind, **spec.params, **family.annotate(spec.params), "layout": name,
            "seed": spec.seed, **tallies.as_dict(), **measured, "runs": table.resolved.runs}
     timings = {"evaluate": evaluated - started, "tally": tallied - evaluated, "measure": done - tallied}
     return spec.index, row, timings
 
 
-def run_tasks(specs: list, *, executor: str = "serial", workers: int | None = None, address: str | None = None):
-    """Yield ``(index, row, timings)`` for every spec, in completion order."""
+def run_tasks(specs: list, *, executor: str = "serial", workers: int | None = None, address: str | None = None,
+              prepared: dict | None = None):
+    """Yield ``(index, row, timings)`` for every spec, in completion order.
+
+    ``prepared`` maps task numbers to already built ``(medium, resolved_layout, measurer)``; only the
+    serial executor, which runs in this process, uses it.
+    """
     if executor not in EXECUTORS:
         raise ProbeInputError(f"executor: {executor!r} is not one of {', '.join(EXECUTORS)}")
     if workers is not None and workers < 1:
@@ -82,7 +96,7 @@ def run_tasks(specs: list, *, executor: str = "serial", workers: int | None = No
         return
     if executor == "serial":
         for spec in specs:
-            yield execute_task(spec)
+            yield execute_task(spec, (prepared or {}).get(spec.index))
     elif executor == "processes":
         count = workers or os.cpu_count() or 1
         with ProcessPoolExecutor(max_workers=count, mp_context=get_context("spawn")) as pool:

@@ -44,9 +44,13 @@ def _conditional_entropies(symbols, n_symbols, offset):
     for c in range(n_contexts):
         for s in range(n_signs):
             counts[symbols[c, s] + offset] += 1
-        given_context += _entropy_bits(counts, n_signs)
+        # Sum over the symbols of this row only (each once, cleared as it is used): O(signs), not O(symbols).
         for s in range(n_signs):
-            counts[symbols[c, s] + offset] = 0
+            symbol = symbols[c, s] + offset
+            if counts[symbol] > 0:
+                p = counts[symbol] / n_signs
+                given_context -= p * np.log2(p)
+                counts[symbol] = 0
     return joint, given_sign / n_signs, given_context / n_contexts
 
 

@@ -162,7 +162,9 @@ def run_plan(plan: Plan, *, progress: bool = True, executor: str = "serial", wor
     bar = tqdm(total=len(specs), initial=len(specs) - len(pending), unit="task", disable=not show,
                desc=plan.config.name, leave=True, dynamic_ncols=True)
     collected = {}
-    for index, row, spent in run_tasks(pending, executor=executor, workers=workers, address=address):
+    prepared = {index: (task.medium, task.resolved, plan.measurer) for index, task in enumerate(plan.tasks)}
+    for index, row, spent in run_tasks(pending, executor=executor, workers=workers, address=address,
+                                       prepared=prepared):
         if store is not None:
             store.add(index, row, spent)
         collected[index] = row
