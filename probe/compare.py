@@ -17,6 +17,7 @@ class counts several times; the output says so.
 from __future__ import annotations
 
 import math
+import warnings
 from dataclasses import asdict, dataclass
 
 import numpy as np
@@ -124,14 +125,34 @@ def correlate(x, y, *, seed: int = 0, purpose=(), n_resamples: int = DEFAULT_RES
             continue
         out[f"{name}_{key}"] = point(x, y)
         chunk = None
-        interval = stats.bootstrap((x, y), batch, paired=True, vectorized=True, n_resamples=n_resamples,
-                                   method="percentile", batch=chunk, rng=rng_for(seed, "bootstrap", name, *purpose))
-        low, high = interval.confidence_interval
+        with warnings.catch_warnings():
+            # A resample in which one variable is constant has no correlation (NaN); handled below.
+            warnings.simplefilter("ignore", stats.DegenerateDataWarning)
+            interval = stats.bootstrap((x, y), batch, paired=True, vectorized=True, n_resamples=n_resamples,
+                                       method="percentile", batch=chunk,
+                                       rng=rng_for(seed, "bootstrap", name, *purpose))
+        low, high = percentile_interval(interval.bootstrap_distribution)
         test = stats.permutation_test((x, y), batch, permutation_type="pairings", vectorized=True,
                                       n_resamples=n_resamples, batch=chunk,
                                       rng=rng_for(seed, "permutation", name, *purpose))
         out.update({f"{name}_low": float(low), f"{name}_high": float(high), f"{name}_p": float(test.pvalue)})
     return out
+
+
+def percentile_interval(distribution, confidence: float = 0.95, usable: float = 0.9) -> tuple:
+    """The percentile interval of a bootstrap distribution, over the resamples where the statistic exists.
+
+    Resamples that draw a constant variable have no rank correlation. When at least ``usable`` of them
+    have one, the interval is taken over those (the same percentiles scipy's percentile method takes);
+    otherwise there is too little variation to resample and the interval is NaN (shown as n/a).
+    """
+    finite = np.asarray(distribution, dtype=float)
+    finite = finite[np.isfinite(finite)]
+    if finite.size < usable * np.asarray(distribution).size or finite.size == 0:
+        return math.nan, math.nan
+    tail = (1 - confidence) / 2 * 100
+    low, high = np.percentile(finite, [tail, 100 - tail])
+    return float(low), float(high)
 
 
 def measure_columns(rows: list) -> list:
@@ -143,7 +164,7 @@ def dedupe(rows: list, family) -> tuple:
     """Rows reduced by the family's ``dedupe`` (one per equivalence class), with a sentence saying what was done."""
     reducer = getattr(family, "dedupe", None)
     if reducer is None:
-        return rows, f"all {len(rows)} rows are used"
+        return rows, f"all {len(rows)} rows"
     return reducer(rows)
 
 
@@ -162,7 +183,7 @@ def compare(rows: list, *, family=None, layouts=None, measures=None, tallies=TAL
         if not use_all_rows:
             subset, note = dedupe(subset, family)
         else:
-            note = f"all {len(subset)} rows are used (no reduction to class representatives)"
+            note = f"all {len(subset)} rows (no reduction to class representatives)"
         for tally in tallies:
             for measure in measures:
                 pairs = [(row[tally], row[measure]) for row in subset

@@ -104,17 +104,21 @@ def reading(correlations: list, note: str, layouts: list) -> str:
             continue
         best = max(main, key=lambda row: abs(row.spearman_rho))
         direction = "rises" if best.spearman_rho > 0 else "falls"
+        no_interval = math.isnan(best.spearman_low)
         excludes = best.spearman_low > 0 or best.spearman_high < 0
         survives = best.spearman_p < threshold
         strength = ("strong" if abs(best.spearman_rho) >= 0.6 else "moderate" if abs(best.spearman_rho) >= 0.3
                     else "weak")
-        certainty = ("its 95% interval excludes zero" if excludes else "its 95% interval includes zero, so even "
+        certainty = ("no bootstrap interval could be computed (too few instances with codes to resample), so "
+                     "its precision is unknown" if no_interval else
+                     "its 95% interval excludes zero" if excludes else "its 95% interval includes zero, so even "
                      "the sign is uncertain")
         smallest_p = 1.0 / (DEFAULT_RESAMPLES + 1)
         p_text = f"p = {best.spearman_p:.4f}" if best.spearman_p > smallest_p else f"p <= {smallest_p:.4f}"
         sentences.append(
             f"Under layout '{layout}', semantic capacity {direction} most clearly with {best.measure} "
-            f"(Spearman rho = {best.spearman_rho:.2f}, 95% CI {best.spearman_low:.2f} to {best.spearman_high:.2f}, "
+            f"(Spearman rho = {best.spearman_rho:.2f}, "
+            f"{'no interval' if no_interval else f'95% CI {best.spearman_low:.2f} to {best.spearman_high:.2f}'}, "
             f"{p_text}, Kendall tau = {best.kendall_tau:.2f}, n = {best.n}): a {strength} monotone association; "
             f"{certainty}, and it {'survives' if survives else 'does not survive'} the correction.")
         weak = [row.measure for row in main if row.spearman_low <= 0 <= row.spearman_high]

@@ -88,3 +88,22 @@ def test_markdown_table_has_one_line_per_row():
                        tallies=("code_instances", "codes"), n_resamples=99)
     text = to_markdown(table)
     assert text.count("\n") == len(table) + 2 and "n/a" in text  # `codes` is constant -> n/a
+
+
+def test_sparse_capacity_gives_no_interval_rather_than_a_warning(recwarn):
+    # Two instances with codes among 40: most resamples hold no coded instance, so rho has no value there.
+    x = np.zeros(40)
+    x[[3, 17]] = [5.0, 9.0]
+    y = np.arange(40, dtype=float)
+    result = correlate(x, y, n_resamples=299)
+    assert not math.isnan(result["spearman_rho"])
+    assert math.isnan(result["spearman_low"]) and math.isnan(result["spearman_high"])
+    assert not [w for w in recwarn if "BCa" in str(w.message)]
+
+
+def test_interval_over_usable_resamples_matches_numpy_percentiles():
+    from probe.compare import percentile_interval
+
+    values = np.concatenate([np.linspace(-1, 1, 95), [np.nan] * 5])
+    assert percentile_interval(values) == pytest.approx(tuple(np.percentile(np.linspace(-1, 1, 95), [2.5, 97.5])))
+    assert all(math.isnan(v) for v in percentile_interval(np.concatenate([np.zeros(80), [np.nan] * 20])))
