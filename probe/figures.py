@@ -64,6 +64,15 @@ def plot_capacity(rows: list, path, *, family=None, layouts=None, title: str = "
                      f"max {int(y.max()) if y.size else 0:,}", fontsize=10, loc="left")
         ax.grid(axis="y", alpha=0.3)
     axes[-1, 0].set_xlabel(axis_key or "instance")
+    first = [row for row in rows if row["layout"] == layouts[0]]
+    if not axis_key and first:
+        # No numeric parameter to place instances by: number them and, when few, name them.
+        axes[-1, 0].xaxis.set_major_locator(matplotlib.ticker.MaxNLocator(integer=True))
+        axes[-1, 0].set_xlim(-0.6, len(first) - 0.4)
+        if family is not None and len(first) <= 30:
+            axes[-1, 0].set_xticks(range(len(first)))
+            axes[-1, 0].set_xticklabels([_short_label(family, row) for row in first], rotation=30, ha="right",
+                                        fontsize=7)
 
     handles = []
     for value, colour in colours.items():
@@ -311,6 +320,15 @@ def plot_tally_against(rows, path, *, x, group=None, tallies=("code_instances", 
     fig.savefig(path, dpi=100)
     plt.close(fig)
     return Path(path)
+
+
+def _short_label(family, row) -> str:
+    """A family's label for a result row, with file paths cut to their file name."""
+    try:
+        label = str(family.instance_label(row))
+    except (KeyError, TypeError):
+        return ""
+    return label.rsplit("/", 1)[-1]
 
 
 def _finite(value) -> bool:
